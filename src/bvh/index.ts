@@ -1,0 +1,3 @@
+export * from './take.js';
+export { parseBvh, readBvhFile, type ParseOptions } from './parse.js';
+export { writeBvh, type WriteOptions } from './write.js';
