@@ -18,6 +18,7 @@ export const LIMITS = {
   minFrameTime: 1e-6,
   maxFrameTime: 60,
   nameBytes: 1024,
+  depth: 1000,
 };
 
 const TOKEN_LOOKAHEAD = 4096;
@@ -136,21 +137,23 @@ function readNumber(r: ByteReader, what: string): number {
   const q = scanNumber(r.buf, r.pos, end);
   if (q !== end || q === r.pos) throw r.fail(what);
   const v = scannedValue;
-  if (!Number.isFinite(v)) throw r.fail(`a finite ${what}`);
+  if (!Number.isFinite(v)) throw r.fail(`a finite ${what.replace(/^an? /, '')}`);
   r.pos = end;
   return v;
 }
 
 function readInteger(r: ByteReader, what: string, max: number): number {
+  skipSpace(r);
   const at = r.pos;
   const v = readNumber(r, what);
   if (!Number.isInteger(v) || v < 0) throw r.fail(what, String(v), undefined, at);
-  if (v > max) throw r.fail(`${what} of at most ${max}`, String(v), 'the file is refused as absurdly large', at);
+  if (v > max) throw r.fail(max > 6 ? `${what} of at most ${max}` : what, String(v), max > 6 ? 'the file is refused as absurdly large' : undefined, at);
   return v;
 }
 
 /** Parses a ROOT or JOINT block (keyword already consumed up to r.pos) and returns the running channel count. */
-function parseJoint(r: ByteReader, joints: Joint[], parent: number, channelCount: number, endSite: boolean, line: number): number {
+function parseJoint(r: ByteReader, joints: Joint[], parent: number, channelCount: number, endSite: boolean, line: number, depth = 0): number {
+  if (depth > LIMITS.depth) throw r.fail(`joints nested at most ${LIMITS.depth} deep`, 'deeper nesting', 'the file is refused as absurd');
   if (joints.length >= LIMITS.joints) throw r.fail(`at most ${LIMITS.joints} joints`, 'more', 'the file is refused as absurdly large');
   let name = readName(r, endSite ? 'an End Site name' : 'a joint name');
   if (!endSite && name === '') throw r.fail('a joint name');
@@ -165,6 +168,7 @@ function parseJoint(r: ByteReader, joints: Joint[], parent: number, channelCount
     const end = nextToken(r);
     if (r.pos >= r.end) throw r.fail(`"}" to close ${endSite ? 'the End Site' : `joint "${name}"`}`, 'end of file', 'the file looks truncated');
     if (tokenIs(r, end, '}')) {
+      if (!sawOffset) throw r.fail(`an OFFSET in ${endSite ? 'the End Site' : `joint "${name}"`}`);
       r.pos = end;
       break;
     }
@@ -191,16 +195,15 @@ function parseJoint(r: ByteReader, joints: Joint[], parent: number, channelCount
       channelCount += n;
     } else if (tokenIs(r, end, 'JOINT') && !endSite) {
       r.pos = end;
-      channelCount = parseJoint(r, joints, index, channelCount, false, keyLine);
+      channelCount = parseJoint(r, joints, index, channelCount, false, keyLine, depth + 1);
     } else if (tokenIs(r, end, 'End') && !endSite) {
       r.pos = end;
       expectKeyword(r, 'Site', '"Site" after "End"');
-      channelCount = parseJoint(r, joints, index, channelCount, true, keyLine);
+      channelCount = parseJoint(r, joints, index, channelCount, true, keyLine, depth + 1);
     } else {
       throw r.fail(endSite ? 'OFFSET or "}" in an End Site' : 'OFFSET, CHANNELS, JOINT, End Site or "}"');
     }
   }
-  if (!sawOffset) throw r.fail(`an OFFSET in ${endSite ? 'the End Site' : `joint "${name}"`}`, `"}" at line ${r.line}`);
   return channelCount;
 }
 
@@ -236,12 +239,12 @@ function parseFrameTime(r: ByteReader): number {
     expectKeyword(r, ':', '":" after "Frame Time"');
   } else if (end - r.pos > 5 && r.text(r.pos, r.pos + 5) === 'Time:') r.pos += 5;
   else throw r.fail('"Time:" after "Frame"');
-  const at = r.pos;
   skipSpace(r);
+  const at = r.pos;
   const ft = readNumber(r, 'a frame time in seconds');
-  if (!(ft > 0)) throw r.fail('a positive frame time in seconds', String(ft), undefined, at === r.pos ? at : r.pos - String(ft).length);
+  if (!(ft > 0)) throw r.fail('a positive frame time in seconds', String(ft), undefined, at);
   if (ft < LIMITS.minFrameTime || ft > LIMITS.maxFrameTime)
-    throw r.fail(`a frame time between ${LIMITS.minFrameTime} and ${LIMITS.maxFrameTime} s`, String(ft));
+    throw r.fail(`a frame time between ${LIMITS.minFrameTime} and ${LIMITS.maxFrameTime} s`, String(ft), undefined, at);
   // The rest of the Frame Time line must be empty.
   while (r.pos < r.end && (r.buf[r.pos] === 32 || r.buf[r.pos] === 9 || r.buf[r.pos] === 13)) r.pos++;
   if (r.pos < r.end && r.buf[r.pos] !== 10) throw r.fail('the end of the Frame Time line');
@@ -282,9 +285,15 @@ function parseMotion(r: ByteReader, C: number, headerFrames: number): { values: 
       continue;
     }
     const q = scanNumber(buf, pos, end);
-    if (q < 0 || (q < end && !isSpace(buf[q]!)) || (q === end && !r.eof)) {
+    if (q === end && !r.eof) {
+      // A long number reaching the buffer's end: buffer more and scan it again.
       r.pos = pos;
-      if (q === end && !r.eof) throw r.fail('a number of at most 64 characters');
+      if (r.ensure(end - pos + TOKEN_LOOKAHEAD) <= end - pos) throw r.fail('a number', 'a token that does not end');
+      buf = r.buf; pos = r.pos; end = r.end;
+      continue;
+    }
+    if (q < 0 || (q < end && !isSpace(buf[q]!))) {
+      r.pos = pos;
       throw r.fail(`a number (frame ${frames + 1}, value ${onLine + 1} of ${C})`);
     }
     const v = scannedValue;

@@ -12,7 +12,7 @@ export interface WriteOptions {
 
 /** Returns the number as BVH text: fixed decimals when asked, else the shortest exact form. */
 function formatNumber(v: number, decimals: number | undefined): string {
-  if (decimals === undefined) return String(v);
+  if (decimals === undefined) return Object.is(v, -0) ? '-0' : String(v);
   const s = v.toFixed(decimals);
   // Avoid "-0.0000" for values that round to zero.
   return /^-0\.?0*$/.test(s) ? s.slice(1) : s;
