@@ -1,0 +1,30 @@
+#!/usr/bin/env node
+// The jointloom command line: registers one command per file and maps errors to exit codes.
+import { Command } from 'commander';
+import { CAUTION } from './caution.js';
+import { VERSION, runProgram } from './program.js';
+import { register as registerInspect } from './inspect.js';
+import { register as registerExport } from './export.js';
+
+/** Returns the program with every command registered. */
+export function buildProgram(): Command {
+  const program = new Command('jointloom')
+    .description('Gait analysis from BVH motion capture: import, forward kinematics, joint roles, synthetic takes.')
+    .version(VERSION)
+    .addHelpText('after', `\nExit status: 0 success, 1 bad input, 2 usage error.\n\n${CAUTION}\n`)
+    .showHelpAfterError('(run with --help for usage)');
+  registerInspect(program);
+  registerExport(program);
+  return program;
+}
+
+const isMain = process.argv[1] !== undefined && import.meta.url === new URL(`file://${process.argv[1]}`).href;
+if (isMain || process.argv[1]?.endsWith('/jointloom')) {
+  runProgram(buildProgram(), process.argv).then(
+    (code) => process.exit(code),
+    (err: unknown) => {
+      process.stderr.write(`jointloom: internal error: ${err instanceof Error ? err.stack : String(err)}\n`);
+      process.exit(70);
+    },
+  );
+}
