@@ -22,6 +22,7 @@ export const LIMITS = {
 };
 
 const TOKEN_LOOKAHEAD = 4096;
+const POW10 = [1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15];
 
 /** Returns the take parsed from BVH text or bytes; throws BvhParseError on bad input. */
 export function parseBvh(input: string | Uint8Array, options: ParseOptions = {}): Take {
@@ -283,6 +284,27 @@ function parseMotion(r: ByteReader, C: number, headerFrames: number): { values: 
       r.lineStart = r.base + pos + 1;
       pos++;
       continue;
+    }
+    // Fast path for the common "[-]digits[.digits]" with at most 15 digits, ending in white space:
+    // the exact m / 10^k of Clinger (1990). Anything else goes through scanNumber below.
+    if (onLine < C && n < cap) {
+      let i = pos;
+      const neg = c === 45;
+      if (neg) i++;
+      let m = 0, nd = 0, fd = 0, d = 0;
+      while (i < end && (d = buf[i]! - 48) >= 0 && d <= 9) { m = m * 10 + d; nd++; i++; }
+      if (i < end && buf[i] === 46) {
+        i++;
+        while (i < end && (d = buf[i]! - 48) >= 0 && d <= 9) { m = m * 10 + d; nd++; fd++; i++; }
+      }
+      const t = i < end ? buf[i]! : 0;
+      if (nd > 0 && nd <= 15 && (t === 32 || t === 10 || t === 13 || t === 9)) {
+        const v = fd === 0 ? m : m / POW10[fd]!;
+        values[n++] = neg ? -v : v;
+        onLine++;
+        pos = i;
+        continue;
+      }
     }
     const q = scanNumber(buf, pos, end);
     if (q === end && !r.eof) {
