@@ -5,6 +5,7 @@ import { CAUTION } from './caution.js';
 import { VERSION, runProgram } from './program.js';
 import { register as registerInspect } from './inspect.js';
 import { register as registerExport } from './export.js';
+import { register as registerSynth } from './synth.js';
 
 /** Returns the program with every command registered. */
 export function buildProgram(): Command {
@@ -15,6 +16,7 @@ export function buildProgram(): Command {
     .showHelpAfterError('(run with --help for usage)');
   registerInspect(program);
   registerExport(program);
+  registerSynth(program);
   return program;
 }
 
