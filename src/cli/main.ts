@@ -6,16 +6,18 @@ import { VERSION, runProgram } from './program.js';
 import { register as registerInspect } from './inspect.js';
 import { register as registerExport } from './export.js';
 import { register as registerSynth } from './synth.js';
+import { register as registerGait } from './gait.js';
 
 /** Returns the program with every command registered. */
 export function buildProgram(): Command {
   const program = new Command('jointloom')
-    .description('Gait analysis from BVH motion capture: import, forward kinematics, joint roles, synthetic takes.')
+    .description('Gait analysis from BVH motion capture: import, forward kinematics, joint roles, gait events, parameters, joint angles and symmetry, synthetic takes.')
     .version(VERSION)
     .addHelpText('after', `\nExit status: 0 success, 1 bad input, 2 usage error.\n\n${CAUTION}\n`)
     .showHelpAfterError('(run with --help for usage)');
   registerInspect(program);
   registerExport(program);
+  registerGait(program);
   registerSynth(program);
   return program;
 }

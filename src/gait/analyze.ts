@@ -109,6 +109,31 @@ export function symmetryTable(a: GaitAnalysis): Record<string, SymmetryEntry> {
   return out;
 }
 
+/** |SI| above which a paired measure is flagged as asymmetric (common practice: about 10 %). */
+export const ASYMMETRY_FLAG_PCT = 10;
+
+/** A paired measure whose sides differ beyond the flag threshold, with the side that is smaller. */
+export interface AsymmetryFlag {
+  measure: string;
+  smaller_side: SideName;
+  symmetry_index_pct: number;
+  text: string;
+}
+
+/** Returns the measures of the symmetry table whose |SI| exceeds the threshold, largest first. */
+export function asymmetryFlags(table: Record<string, SymmetryEntry>, labels: Record<string, string> = {}): AsymmetryFlag[] {
+  const out: AsymmetryFlag[] = [];
+  for (const [measure, e] of Object.entries(table)) {
+    const si = e.symmetry_index_pct;
+    if (si === null || Math.abs(si) <= ASYMMETRY_FLAG_PCT) continue;
+    const smaller: SideName = si < 0 ? 'right' : 'left';
+    const larger = smaller === 'left' ? 'right' : 'left';
+    const name = labels[measure] ?? measure.replace(/_rom_deg$/, ' range').replace(/_(m|s|pct|deg)$/, '').replace(/_/g, ' ');
+    out.push({ measure, smaller_side: smaller, symmetry_index_pct: si, text: `${smaller} ${name} is smaller than ${larger} (symmetry index ${si.toFixed(1)} %)` });
+  }
+  return out.sort((a, b) => Math.abs(b.symmetry_index_pct) - Math.abs(a.symmetry_index_pct));
+}
+
 function mean(xs: ArrayLike<number>): number | null {
   let n = 0, s = 0;
   for (let i = 0; i < xs.length; i++) if (Number.isFinite(xs[i]!)) { n++; s += xs[i]!; }
@@ -165,6 +190,7 @@ export function gaitResultJson(a: GaitAnalysis, provenance: { tool: string; vers
     knee_flexion_peak_swing_deg: { left: r3(mean(a.cycles.left.peakSwingKneeFlexion)), right: r3(mean(a.cycles.right.peakSwingKneeFlexion)) },
     symmetry_index_pct: Object.fromEntries(Object.entries(sym).map(([k, v]) => [k, v.symmetry_index_pct])),
     symmetry: sym,
+    asymmetry_flags: asymmetryFlags(sym),
     curve_symmetry: curveSym,
     parameters: { left: sideParams('left'), right: sideParams('right') },
     range_of_motion_deg: { left: rom('left'), right: rom('right') },

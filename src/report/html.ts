@@ -15,8 +15,8 @@ table { border-collapse: collapse; margin: 6px 0 12px; font-variant-numeric: tab
 th, td { padding: 4px 10px; border-bottom: 1px solid var(--rule); text-align: right; }
 th:first-child, td:first-child { text-align: left; }
 thead th { background: var(--tint); font-weight: 600; }
-.grid-plots { display: grid; grid-template-columns: repeat(auto-fill, minmax(400px, 1fr)); gap: 14px; }
-.plot { background: var(--paper); border: 1px solid var(--rule); border-radius: 4px; max-width: 100%; height: auto; }
+.grid-plots { display: grid; grid-template-columns: repeat(auto-fill, minmax(440px, 1fr)); gap: 14px; }
+.plot { background: var(--paper); border: 1px solid var(--rule); border-radius: 4px; width: 100%; height: auto; display: block; }
 .plot .plot-title { font-size: 14px; font-weight: 600; fill: var(--ink); }
 .plot .tick { font-size: 11px; fill: var(--muted); }
 .plot .axis-label { font-size: 12px; fill: var(--ink); }

@@ -56,8 +56,8 @@ function fmtTick(v: number): string {
 
 /** Returns an SVG element drawing the plot: axes with ticks and labels, SD bands, lines, markers, legend. */
 export function linePlotSvg(p: LinePlot): string {
-  const W = p.width ?? 420, H = p.height ?? 260;
-  const m = { l: 56, r: 12, t: 28, b: 62 };
+  const W = p.width ?? 480, H = p.height ?? 290;
+  const m = { l: 56, r: 12, t: 28, b: 76 };
   const n = p.x.length;
   let lo = Infinity, hi = -Infinity;
   const take = (v: number) => { if (Number.isFinite(v)) { lo = Math.min(lo, v); hi = Math.max(hi, v); } };
@@ -80,7 +80,7 @@ export function linePlotSvg(p: LinePlot): string {
     return d + 'Z';
   };
   const parts: string[] = [];
-  parts.push(`<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${W} ${H}" width="${W}" height="${H}" role="img" aria-label="${escapeXml(p.title)}" class="plot">`);
+  parts.push(`<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${W} ${H}" role="img" aria-label="${escapeXml(p.title)}" class="plot">`);
   parts.push(`<text x="${m.l}" y="17" class="plot-title">${escapeXml(p.title)}</text>`);
   for (const t of yt) parts.push(`<line x1="${m.l}" x2="${W - m.r}" y1="${Y(t).toFixed(1)}" y2="${Y(t).toFixed(1)}" class="grid"/><text x="${m.l - 6}" y="${(Y(t) + 4).toFixed(1)}" class="tick" text-anchor="end">${fmtTick(t)}</text>`);
   for (const t of niceTicks(x0, x1, 5).filter((v) => v >= x0 && v <= x1)) parts.push(`<text x="${X(t).toFixed(1)}" y="${H - m.b + 16}" class="tick" text-anchor="middle">${fmtTick(t)}</text>`);
@@ -97,15 +97,20 @@ export function linePlotSvg(p: LinePlot): string {
   parts.push(`<rect x="${m.l}" y="${m.t}" width="${W - m.l - m.r}" height="${H - m.t - m.b}" class="frame"/>`);
   parts.push(`<text x="${(m.l + W - m.r) / 2}" y="${H - m.b + 32}" class="axis-label" text-anchor="middle">${escapeXml(p.xLabel)}</text>`);
   parts.push(`<text transform="translate(14 ${(m.t + H - m.b) / 2}) rotate(-90)" class="axis-label" text-anchor="middle">${escapeXml(p.yLabel)}</text>`);
-  // Legend under the axis label: a short line sample per series, in its style.
-  let lx = m.l;
-  const ly = H - 10;
+  // Legend under the axis label: a short line sample per entry, in its style, wrapped to the width.
   const legend = [...p.series.map((s) => ({ label: s.label, colour: s.colour, dash: s.dash, w: 2 })), ...(p.markers ?? []).slice(0, 2).map((mk) => ({ label: mk.label, colour: mk.colour, dash: mk.dash, w: 1.2 }))];
+  let lx = m.l;
+  let ly = H - m.b + 50;
   for (const e of legend) {
+    const w = 34 + e.label.length * 6.2;
+    if (lx + w > W - m.r && lx > m.l) { lx = m.l; ly += 14; }
     parts.push(`<line x1="${lx}" x2="${lx + 22}" y1="${ly - 4}" y2="${ly - 4}" stroke="${e.colour}" stroke-width="${e.w}" stroke-dasharray="${e.dash}"/><text x="${lx + 26}" y="${ly}" class="legend">${escapeXml(e.label)}</text>`);
-    lx += 34 + e.label.length * 6.2;
+    lx += w;
   }
-  if (p.reference) parts.push(`<rect x="${lx}" y="${ly - 9}" width="18" height="9" class="reference"/><text x="${lx + 22}" y="${ly}" class="legend">${escapeXml(p.reference.label)}</text>`);
+  if (p.reference) {
+    if (lx + 120 > W - m.r) { lx = m.l; ly += 14; }
+    parts.push(`<rect x="${lx}" y="${ly - 9}" width="18" height="9" class="reference"/><text x="${lx + 22}" y="${ly}" class="legend">${escapeXml(p.reference.label)}</text>`);
+  }
   parts.push('</svg>');
   return parts.join('');
 }
