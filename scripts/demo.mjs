@@ -23,17 +23,25 @@ function jointloom(args) {
 
 const takes = readdirSync(takesDir).filter((f) => f.endsWith('.bvh')).sort();
 console.log(`jointloom demo: ${takes.length} takes of the fictional Quillbrook Gait Studio (demo-takes/)\n`);
-console.log('take                     frames    Hz  units  up  roles  warnings');
+console.log('take                   units up  cadence speed  stance L/R   knee peak L/R  largest asymmetry');
+const fx = (v, d) => (v === null || v === undefined ? '–' : v.toFixed(d));
 for (const t of takes) {
-  const j = JSON.parse(jointloom(['inspect', join(takesDir, t), '--json']));
-  const found = Object.values(j.roles).filter((v) => v !== null).length;
-  console.log(`${t.padEnd(24)} ${String(j.frames).padStart(6)} ${String(j.fps).padStart(5)}  ${j.units.padEnd(5)}  ${j.up.padEnd(2)}  ${String(found).padStart(2)}/19  ${j.warnings.length}`);
+  const path = join(takesDir, t);
+  const info = JSON.parse(jointloom(['inspect', path, '--json']));
+  const html = join(outDir, t.replace(/\.bvh$/, '.gait.html'));
+  const g = JSON.parse(jointloom(['gait', path, '--json', '--html', html]));
+  const flag = g.asymmetry_flags[0]?.text ?? 'none beyond |SI| 10 %';
+  console.log(
+    `${t.padEnd(22)} ${info.units.padEnd(5)} ${info.up.padEnd(2)}  ${fx(g.cadence_steps_per_min, 1).padStart(6)}  ${fx(g.speed_m_per_s, 2)}  ` +
+      `${fx(g.stance_pct.left, 1)}/${fx(g.stance_pct.right, 1)}    ${fx(g.knee_flexion_peak_swing_deg.left, 1)}/${fx(g.knee_flexion_peak_swing_deg.right, 1)}    ${flag}`,
+  );
 }
+console.log(`\ngait reports (HTML, one per take): ${outDir}/*.gait.html`);
 
 const first = join(takesDir, takes[0]);
 const csv = join(outDir, 'positions.csv');
 jointloom(['export', first, '--frames', '0-99', '--metres', '--format', 'csv', '-o', csv]);
-console.log(`\njoint positions of the first 100 frames of ${takes[0]} in metres: ${csv}`);
+console.log(`joint positions of the first 100 frames of ${takes[0]} in metres: ${csv}`);
 const synth = join(outDir, 'synthetic-walk.bvh');
 console.log(jointloom(['synth', '--seed', '42', '--duration', '20', '--out', synth, '--truth', join(outDir, 'synthetic-walk.truth.json')]).trim());
 console.log('\nCaution: a research and quality aid, not a diagnostic device; results are reviewed by a qualified clinician.');

@@ -112,4 +112,15 @@ describe('no walking, no numbers', () => {
     expect(() => analyzeGait(imported)).toThrow(InputError);
     expect(() => analyzeGait(imported)).toThrow(/^standing\.bvh: no walking found/);
   });
+  it('crouching up and down on the spot raises the same InputError', () => {
+    const { take } = synthesizeTake({ seed: 7022, duration: 4 });
+    const held = still(take, 200, 900);
+    // The root's vertical position channel (Y up in the walker's default take) goes down and up by
+    // 30 cm every 2 s: knee bends without travel, which is not walking.
+    const root = held.joints[0]!;
+    const y = root.channelStart + root.channels.indexOf('Yposition');
+    const fps = 1 / held.frameTime;
+    for (let f = 0; f < held.frameCount; f++) held.values[f * held.channelCount + y] -= 15 * (1 - Math.cos((2 * Math.PI * f) / (2 * fps)));
+    expect(() => analyzeGait(resolveImported('crouch.bvh', held))).toThrow(/^crouch\.bvh: no walking found/);
+  });
 });
