@@ -1,0 +1,69 @@
+// Forecast baselines on signals whose future is known by construction (hand-computed cases).
+import { describe, expect, it } from 'vitest';
+import { baselineForecast, constantVelocity, strideForecast, zeroMotion } from '../../src/model/baselines.js';
+import { bandCoverage, horizonStep, meanJointError } from '../../src/model/metrics.js';
+import { stridePeriodAt } from '../../src/model/period.js';
+
+/** Returns steps × nodes × 3 positions: the pelvis (node 0) advancing along x at `v` m/s, every node
+ * swinging with period `P` seconds around it (a perfectly periodic walk). */
+function periodicWalk(steps: number, nodes: number, rate: number, v: number, P: number): Float64Array {
+  const out = new Float64Array(steps * nodes * 3);
+  for (let t = 0; t < steps; t++) {
+    const time = t / rate, x0 = v * time;
+    for (let n = 0; n < nodes; n++) {
+      const o = (t * nodes + n) * 3;
+      const ph = (2 * Math.PI * time) / P + n;
+      out[o] = x0 + (n ? 0.2 * Math.sin(ph) : 0.02 * Math.sin(2 * ph));
+      out[o + 1] = n ? 0.1 * n + 0.05 * Math.cos(ph) : 0;
+      out[o + 2] = 1 + (n ? 0.1 * Math.sin(ph + 1) : 0.02 * Math.cos(2 * ph));
+    }
+  }
+  return out;
+}
+
+describe('forecast baselines', () => {
+  it('zero motion holds the last pose; constant velocity extrapolates a straight line exactly', () => {
+    const N = 2, T = 10;
+    const p = new Float64Array(T * N * 3);
+    for (let t = 0; t < T; t++) for (let c = 0; c < N * 3; c++) p[t * N * 3 + c] = 0.1 * t + c;
+    const z = zeroMotion(p, N, 5, 3, new Float64Array(3 * N * 3));
+    expect(Array.from(z.subarray(0, 6))).toEqual(Array.from(p.subarray(30, 36)));
+    const cv = constantVelocity(p, N, 5, 3, new Float64Array(3 * N * 3));
+    // Step 5 + k + 1 of a line 0.1 t + c is 0.1 (6 + k) + c.
+    for (let k = 0; k < 3; k++) for (let c = 0; c < 6; c++) expect(cv[k * 6 + c]).toBeCloseTo(0.1 * (6 + k) + c, 12);
+  });
+
+  it('finds the stride period of a periodic walk from the past only', () => {
+    const rate = 30, P = 1.1;
+    const p = periodicWalk(200, 4, rate, 1.3, P);
+    expect(stridePeriodAt(p, 4, rate, 150)).toBeCloseTo(P * rate, 0);
+    expect(stridePeriodAt(p, 4, rate, 20)).toBeNaN(); // under two strides of history
+  });
+
+  it('last-stride and stride-mean forecasts are near exact on a perfectly periodic walk', () => {
+    const rate = 30, P = 1.0, N = 4, H = 30, end = 150;
+    const p = periodicWalk(end + H + 1, N, rate, 1.3, P);
+    const truth = p.slice((end + 1) * N * 3, (end + 1 + H) * N * 3);
+    for (const strides of [1, 3]) {
+      const out = new Float64Array(H * N * 3);
+      const used = strideForecast(p, N, rate, end, H, strides, out);
+      expect(used).toBeCloseTo(30, 1);
+      for (let k = 0; k < H; k++) expect(meanJointError(out, truth, N, k)).toBeLessThan(0.01);
+    }
+    // Constant velocity is far worse at 1 s on the same walk.
+    const cv = baselineForecast('constant_velocity', p, N, rate, end, H, new Float64Array(H * N * 3));
+    expect(meanJointError(cv, truth, N, H - 1)).toBeGreaterThan(0.05);
+  });
+
+  it('horizon steps and band coverage', () => {
+    expect(horizonStep(1.0, 30)).toBe(29);
+    expect(horizonStep(0.5, 30)).toBe(14);
+    // 101 samples 0..100 for one coordinate: the central 90 % band is [5, 95]; 3 of 4 truths inside.
+    const S = 101;
+    const cover = (v: number) => bandCoverage(Float64Array.from({ length: S }, (_, i) => i), S, Float64Array.of(v));
+    expect(cover(50)).toBe(1);
+    expect(cover(4)).toBe(0);
+    expect(cover(95)).toBe(1);
+    expect(cover(96)).toBe(0);
+  });
+});
