@@ -6,6 +6,7 @@ import { heelOffsets } from '../skeleton/heel.js';
 import type { ImportedTake } from '../skeleton/import.js';
 import { ROLE_NAMES, type RoleName } from '../skeleton/roles.js';
 import { lowpassInterleaved } from './filter.js';
+import { rotationToZ } from '../skeleton/axes.js';
 
 /** Default low-pass cutoff for joint positions (common practice for walking kinematics). */
 export const DEFAULT_LOWPASS_HZ = 6;
@@ -31,20 +32,6 @@ export interface GaitInput {
   lowpassHz: number | null;
   /** Rotation from file axes to the canonical frame, row-major 3x3. */
   toCanonical: Float64Array;
-}
-
-/** Returns the rotation (row-major 3x3) taking unit vector `u` onto +Z, the shortest such turn. */
-export function rotationToZ(u: readonly number[]): Float64Array {
-  const [x, y, z] = u as [number, number, number];
-  if (z < -0.999999) return new Float64Array([1, 0, 0, 0, -1, 0, 0, 0, -1]);
-  // Rodrigues for the axis u × z = (y, -x, 0) and angle acos(z): R = I + [k]x + [k]x^2 / (1 + z).
-  const kx = y, ky = -x;
-  const f = 1 / (1 + z);
-  return new Float64Array([
-    1 - ky * ky * f, kx * ky * f, ky,
-    kx * ky * f, 1 - kx * kx * f, -kx,
-    -ky, kx, 1 - (kx * kx + ky * ky) * f,
-  ]);
 }
 
 /** Returns the gait input of an imported take: FK, units to metres, axes to Z up, optional low-pass. */
