@@ -7,6 +7,7 @@ import { register as registerInspect } from './inspect.js';
 import { register as registerExport } from './export.js';
 import { register as registerSynth } from './synth.js';
 import { register as registerGait } from './gait.js';
+import { register as registerNorms } from './norms.js';
 
 /** Returns the program with every command registered. */
 export function buildProgram(): Command {
@@ -18,6 +19,7 @@ export function buildProgram(): Command {
   registerInspect(program);
   registerExport(program);
   registerGait(program);
+  registerNorms(program);
   registerSynth(program);
   return program;
 }

@@ -10,7 +10,8 @@
 //                       with s the shank's Z; ankle behind the thigh line = flexion (+), hyperextension (−).
 //   ankle_dorsiflexion  foot long axis (heel → toe) in the shank frame: atan2(x·Z_s, x·X_s);
 //                       toes towards the shin (+), plantarflexion (−).
-//   foot_progression    foot long axis on the floor against the walking direction; toe-out (+), toe-in (−).
+//   foot_progression    foot heading on the floor (its lateral axis turned a quarter right) against the
+//                       walking direction; toe-out (+), toe-in (−).
 //   pelvis_tilt, pelvis_obliquity, pelvis_rotation
 //                       the pelvis against the progression frame (X = walking direction, Z = up, Y = Z × X),
 //                       as rotation about Z, then obliquity about the turned X, then tilt about the pelvis's Y
@@ -138,7 +139,11 @@ export function anglesAt(seg: SegmentFrames, o: number, dx: number, dy: number, 
     const fx = Ft[q + 3]!, fy = Ft[q + 4]!, fz = Ft[q + 5]!;
     const ankle = Math.atan2(fx * sx + fy * sy + fz * sz, fx * S[q + 3]! + fy * S[q + 4]! + fz * S[q + 5]!);
     // Foot on the floor against the direction: positive when the toe points to the subject's left of travel.
-    const toLeft = Math.atan2(dx * fy - dy * fx, dx * fx + dy * fy);
+    // The foot's heading is read from its lateral axis turned a quarter right, (Y_y, −Y_x): pitch turns the
+    // foot about that axis, so a steep foot near toe-off keeps its heading, where the projection of the
+    // heel-to-toe axis would shrink and flip. For a flat foot both agree.
+    const hx = Ft[q + 7]!, hy = -Ft[q + 6]!;
+    const toLeft = Math.atan2(dx * hy - dy * hx, dx * hx + dy * hy);
     const b = s * 5;
     out[b] = hipFlex * DEG;
     out[b + 1] = knee * DEG;

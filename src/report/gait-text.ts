@@ -1,4 +1,5 @@
 // The gait result as a short text table for the terminal, and its strides as CSV.
+import type { NormsScore } from '../norms/score.js';
 import type { GaitReportData } from './gait-html.js';
 
 const ROWS: [string, string, number, string | null][] = [
@@ -38,11 +39,39 @@ export function gaitText(d: GaitReportData): string {
     lines.push(`  asymmetry beyond |SI| ${10} %`);
     for (const a of d.asymmetry_flags) lines.push(`    - ${a.text}`);
   }
+  if (d.norms) lines.push(...normsLines(d.norms));
   if (d.warnings.length) {
     lines.push('  warnings');
     for (const w of d.warnings) lines.push(`    ! ${w}`);
   }
   return lines.join('\n');
+}
+
+const ANGLE_SHORT: Record<string, string> = {
+  pelvis_tilt: 'pelvis tilt', pelvis_obliquity: 'pelvis obliquity', pelvis_rotation: 'pelvis rotation', hip_flexion: 'hip flexion',
+  hip_abduction: 'hip abduction', knee_flexion: 'knee flexion', ankle_dorsiflexion: 'ankle dorsiflexion', foot_progression: 'foot progression',
+};
+
+/** Returns the lines of the scores against a reference. */
+function normsLines(n: NormsScore): string[] {
+  const r = n.reference;
+  const out: string[] = [];
+  out.push(`  against ${r.file}${r.label ? ` (${r.label})` : ''}: band ${r.band_label}, ${r.band_strides} strides; take speed / sqrt(g L) ${fx(n.speed_dimensionless, 3)}`);
+  if (r.note) out.push(`    note: ${r.note}`);
+  out.push(`  gait profile score ${fx(n.gps.overall, 2)}° (left ${fx(n.gps.left, 2)}°, right ${fx(n.gps.right, 2)}°); MCID ${n.gps.mcid_deg}° (Baker et al. 2012); band's takes median ${fx(n.gps.reference_median, 2)}°, 95th pct ${fx(n.gps.reference_p95, 2)}°`);
+  if (n.gdi) out.push(`  gait deviation index left ${fx(n.gdi.left.gdi, 1)}, right ${fx(n.gdi.right.gdi, 1)} (100 = reference mean, 10 = 1 SD; 8 curves, no hip rotation)`);
+  else out.push(`  gait deviation index: ${n.gdi_note ?? 'none'}`);
+  out.push(`  ${'GVS (°)'.padEnd(22)}${'left'.padStart(9)}${'right'.padStart(9)}   outside mean ± 2 SD`);
+  for (const [k, v] of Object.entries(n.gvs)) {
+    const o = n.outside[k]!;
+    const runs = (['left', 'right'] as const).flatMap((s) => o[s].map(([a, b]) => `${s[0]!.toUpperCase()} ${a}-${b} %`)).join(', ');
+    out.push(`  ${(ANGLE_SHORT[k] ?? k).padEnd(22)}${fx(v.left, 2).padStart(9)}${fx(v.right, 2).padStart(9)}   ${runs}`);
+  }
+  const far = Object.entries(n.parameters).filter(([, p]) => p.outside.length);
+  if (far.length) out.push(`  parameters outside mean ± 2 SD: ${far.map(([k, p]) => `${k} (${p.outside.join(', ')})`).join('; ')}`);
+  for (const w of n.warnings) out.push(`    ! ${w}`);
+  if (n.gdi_note && n.gdi) out.push(`    note: ${n.gdi_note}`);
+  return out;
 }
 
 /** Returns the stride table as CSV (one row a stride). */

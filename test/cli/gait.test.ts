@@ -1,5 +1,6 @@
 // The gait command as a user runs it: JSON fields, CSV and HTML outputs, reviewed events read back,
-// a non-walking take refused with one line, and the HTML report rendered in headless Chromium.
+// a non-walking take refused with one line, the shipped synthetic reference used by default (and --no-norms),
+// and the HTML report rendered in headless Chromium with its reference bands and profile chart.
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -34,6 +35,25 @@ describe('gait command', () => {
     expect(json.events.right.toe_off.length).toBeGreaterThan(5);
     expect(json.symmetry_index_pct.knee_flexion_rom_deg).toBeLessThan(0);
     expect(json.curves.knee_flexion.left.mean).toHaveLength(101);
+  });
+
+  it('scores against the shipped synthetic reference by default, labelled so; --no-norms turns it off', async () => {
+    const n = json.norms;
+    expect(n.reference.label).toBe('synthetic reference, not clinical');
+    expect(n.reference.synthetic).toBe(true);
+    expect(n.reference.file).toMatch(/synthetic-norms\.json$/);
+    expect(n.curves.knee_flexion.mean).toHaveLength(101);
+    // The right knee keeps 60 % of its range: its variable score and the right profile score are the larger.
+    expect(n.gvs.knee_flexion.right).toBeGreaterThan(n.gvs.knee_flexion.left);
+    expect(n.gps.right).toBeGreaterThan(n.gps.left);
+    expect(n.gdi.right.gdi).toBeLessThan(n.gdi.left.gdi);
+    expect(n.gdi.note).toMatch(/no hip rotation/);
+    const text = await runCli(['gait', take]);
+    expect(text.stdout).toMatch(/synthetic reference, not clinical/);
+    expect(text.stdout).toMatch(/gait profile score \d+\.\d+° .*MCID 1\.6°/);
+    const off = JSON.parse((await runCli(['gait', take, '--json', '--no-norms'])).stdout);
+    expect(off.norms).toBeUndefined();
+    expect((await runCli(['gait', take, '--no-norms'])).stdout).not.toMatch(/profile score/);
   });
 
   it('writes the stride CSV and an events file that reads back to the same figures', async () => {
@@ -80,6 +100,7 @@ describe('gait command', () => {
     const text = readFileSync(html, 'utf8');
     expect(text).not.toMatch(/(src|href)="https?:/);
     expect(text).toMatch(/not a diagnostic device/);
+    expect(text).toMatch(/synthetic reference, not clinical/);
     if (!haveChromium()) {
       // CI installs Debian's chromium (.ci/run); a developer machine without it checks the text only.
       expect(process.env.CI).not.toBe('true');
@@ -93,6 +114,12 @@ describe('gait command', () => {
       await page.goto(`file://${html}`);
       expect(await page.title()).toBe('Gait report');
       expect(await page.locator('svg.plot').count()).toBe(8);
+      // The reference band under every plot, a strip of the parts outside ±2 SD under each, one profile chart.
+      expect(await page.locator('svg.plot path.reference').count()).toBe(8);
+      expect(await page.locator('svg.band-strip').count()).toBe(8);
+      expect(await page.locator('svg.band-strip rect[fill]').count()).toBeGreaterThan(0);
+      expect(await page.locator('svg.profile-chart').count()).toBe(1);
+      expect(await page.getByText('Synthetic reference, not clinical', { exact: false }).count()).toBeGreaterThan(0);
       // Per plot at least: two SD bands, two mean lines (and the toe-off markers as lines).
       expect(await page.locator('svg.plot path').count()).toBeGreaterThanOrEqual(8 * 4);
       const box = await page.locator('svg.plot').first().boundingBox();
