@@ -12,7 +12,7 @@ const { context, close } = await launchChromium();
 try {
   const page = await context.newPage();
   await page.goto(`file://${resolve(html)}`);
-  const height = await page.evaluate(() => document.body.scrollHeight);
+  const height = (await page.evaluate('document.body.scrollHeight')) as number;
   const step = 1200;
   for (let y = 0, k = 0; y < height; y += step, k++) {
     const path = `${prefix}-${k}.png`;
