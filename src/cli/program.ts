@@ -44,8 +44,9 @@ export function choiceOption<T extends string>(choices: readonly T[]): (v: strin
 
 /** Runs the program on argv, turning user errors into one stderr line and the documented exit code. */
 export async function runProgram(program: Command, argv: string[]): Promise<number> {
-  program.exitOverride();
-  for (const c of program.commands) c.exitOverride();
+  // Every command at every depth throws instead of exiting, so errors reach the handler below.
+  const override = (c: Command): void => { c.exitOverride(); c.commands.forEach(override); };
+  override(program);
   try {
     await program.parseAsync(argv);
     return typeof process.exitCode === 'number' ? process.exitCode : 0;
