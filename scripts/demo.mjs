@@ -1,7 +1,7 @@
 // The main job on the fictional clinic's demo takes, through the built CLI exactly as a user runs it.
 // Run by `npm run demo` after `npm run build`. Writes everything under out/demo/.
 import { spawnSync } from 'node:child_process';
-import { mkdirSync, readdirSync } from 'node:fs';
+import { mkdirSync, readdirSync, rmSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 
 const root = resolve(import.meta.dirname, '..');
@@ -23,7 +23,15 @@ function jointloom(args) {
 
 const takes = readdirSync(takesDir).filter((f) => f.endsWith('.bvh')).sort();
 console.log(`jointloom demo: ${takes.length} takes of the fictional Quillbrook Gait Studio (demo-takes/)\n`);
-console.log('take                   units up  cadence speed  stance L/R   knee peak L/R  largest asymmetry');
+
+// 1. Batch-score the clinic's takes into a fresh ledger and write the cohort report.
+const ledger = join(outDir, 'jointloom-ledger.sqlite');
+for (const f of [ledger, `${ledger}-wal`, `${ledger}-shm`]) rmSync(f, { force: true });
+const batch = JSON.parse(jointloom(['batch', takesDir, '--ledger', ledger, '--out', outDir, '--json', '--quiet']));
+console.log(`batch: ${batch.scored} takes scored, ${batch.failed.length} failed, ${batch.workers} workers, ${batch.elapsed_s.toFixed(1)} s -> ${ledger}`);
+
+// 2. The gait figures of every take, with an HTML gait report each.
+console.log('\ntake                   units up  cadence speed  stance L/R   knee peak L/R  GPS °  largest asymmetry');
 const fx = (v, d) => (v === null || v === undefined ? '–' : v.toFixed(d));
 for (const t of takes) {
   const path = join(takesDir, t);
@@ -31,17 +39,13 @@ for (const t of takes) {
   const html = join(outDir, t.replace(/\.bvh$/, '.gait.html'));
   const g = JSON.parse(jointloom(['gait', path, '--json', '--html', html]));
   const flag = g.asymmetry_flags[0]?.text ?? 'none beyond |SI| 10 %';
+  const gps = g.norms?.scores?.gps?.overall ?? g.norms?.gps?.overall ?? null;
   console.log(
     `${t.padEnd(22)} ${info.units.padEnd(5)} ${info.up.padEnd(2)}  ${fx(g.cadence_steps_per_min, 1).padStart(6)}  ${fx(g.speed_m_per_s, 2)}  ` +
-      `${fx(g.stance_pct.left, 1)}/${fx(g.stance_pct.right, 1)}    ${fx(g.knee_flexion_peak_swing_deg.left, 1)}/${fx(g.knee_flexion_peak_swing_deg.right, 1)}    ${flag}`,
+      `${fx(g.stance_pct.left, 1)}/${fx(g.stance_pct.right, 1)}    ${fx(g.knee_flexion_peak_swing_deg.left, 1)}/${fx(g.knee_flexion_peak_swing_deg.right, 1)}    ${fx(gps, 2).padStart(5)}  ${flag}`,
   );
 }
-console.log(`\ngait reports (HTML, one per take): ${outDir}/*.gait.html`);
-
-const first = join(takesDir, takes[0]);
-const csv = join(outDir, 'positions.csv');
-jointloom(['export', first, '--frames', '0-99', '--metres', '--format', 'csv', '-o', csv]);
-console.log(`joint positions of the first 100 frames of ${takes[0]} in metres: ${csv}`);
-const synth = join(outDir, 'synthetic-walk.bvh');
-console.log(jointloom(['synth', '--seed', '42', '--duration', '20', '--out', synth, '--truth', join(outDir, 'synthetic-walk.truth.json')]).trim());
+console.log(`\ncohort report: ${batch.report.html}`);
+console.log(`cohort table:  ${batch.report.csv}`);
+console.log(`gait reports:  ${outDir}/*.gait.html (bands from the synthetic reference, not clinical)`);
 console.log('\nCaution: a research and quality aid, not a diagnostic device; results are reviewed by a qualified clinician.');
