@@ -8,11 +8,13 @@ import { register as registerExport } from './export.js';
 import { register as registerSynth } from './synth.js';
 import { register as registerGait } from './gait.js';
 import { register as registerNorms } from './norms.js';
+import { register as registerBatch } from './batch.js';
+import { register as registerLedger } from './ledger.js';
 
 /** Returns the program with every command registered. */
 export function buildProgram(): Command {
   const program = new Command('jointloom')
-    .description('Gait analysis from BVH motion capture: import, forward kinematics, joint roles, gait events, parameters, joint angles and symmetry, synthetic takes.')
+    .description('Gait analysis from BVH motion capture: import, forward kinematics, joint roles, gait events, parameters, joint angles, symmetry and reference scores, a joint-pair coupling model that forecasts the next second, batch scoring into a ledger, a viewer, synthetic takes.')
     .version(VERSION)
     .addHelpText('after', `\nExit status: 0 success, 1 bad input, 2 usage error.\n\n${CAUTION}\n`)
     .showHelpAfterError('(run with --help for usage)');
@@ -21,6 +23,8 @@ export function buildProgram(): Command {
   registerGait(program);
   registerNorms(program);
   registerSynth(program);
+  registerBatch(program);
+  registerLedger(program);
   return program;
 }
 
