@@ -1,0 +1,113 @@
+// The coupling model's configuration: sizes of every part, the ELBO weights and the on/off switches of
+// the ablations (no pair messages, match pairing, restricted labeling). Every field has a default; the
+// resolved configuration travels in the model file, so a model always rebuilds with its own shapes.
+import { NODE_COUNT } from '../motion/roles.js';
+
+/** Sizes, weights and switches of a coupling model. */
+export interface ModelConfig {
+  /** Nodes of the joint graph (17 canonical roles). */
+  nodes: number;
+  /** Observed steps (60: 2 s at 30 Hz) and forecast steps (30: 1 s). */
+  observe: number;
+  forecast: number;
+  /** Encoder GRU width per node. */
+  hidden: number;
+  /** Width of the pair embedding between the node projections and the factor heads. */
+  pairHidden: number;
+  /** Static factor dimensions per ordered pair. */
+  staticDims: number;
+  /** Dynamic factor dimensions per ordered pair. */
+  dynamicDims: number;
+  /** One dynamic factor point every `dynamicStride` steps (observe must be a multiple of it). */
+  dynamicStride: number;
+  /** Width of a pair message (the decoder's split first layer). */
+  messageHidden: number;
+  /** Hidden width of the node update MLP. */
+  updateHidden: number;
+  /** Teacher-forced one-step transitions scored at the end of the observed part (at most observe − 1). */
+  reconSteps: number;
+  /** Weight of the multi-step rollout term over the forecast steps. */
+  rolloutWeight: number;
+  /** Weight β of the KL terms. */
+  beta: number;
+  /** Model rate, steps per second (the windows' rate). */
+  rate: number;
+  /**
+   * Add the kinematic step p(t + 1) = p(t) + v(t) / rate (in normalised units) to the decoder's predicted
+   * change, so that an untrained decoder forecasts constant velocity and learns the correction.
+   */
+  kinematic: boolean;
+  /** Remove the pair messages entirely: each node's update sees only its own state (the no-coupling baseline). */
+  noCoupling: boolean;
+  /** Windows of one take that share a group share their static factors (posteriors averaged before sampling). */
+  matchPairing: boolean;
+  /** Tie the first two dynamic dimensions to sin and cos of the gait phase (a supervised term on their means). */
+  restrictedLabeling: boolean;
+  /** Weight of the restricted-labeling term (per labelled dimension and point, summed over pairs). */
+  labelWeight: number;
+}
+
+/** Returns the default configuration (hidden width 32, 4 static and 4 dynamic dimensions). */
+export function defaultModelConfig(): ModelConfig {
+  return {
+    nodes: NODE_COUNT,
+    observe: 60,
+    forecast: 30,
+    hidden: 32,
+    pairHidden: 32,
+    staticDims: 4,
+    dynamicDims: 4,
+    dynamicStride: 5,
+    messageHidden: 32,
+    updateHidden: 64,
+    reconSteps: 30,
+    rolloutWeight: 1,
+    beta: 1,
+    rate: 30,
+    kinematic: true,
+    noCoupling: false,
+    matchPairing: true,
+    restrictedLabeling: true,
+    labelWeight: 1,
+  };
+}
+
+/** Returns the configuration with defaults filled and every field checked (throws RangeError when unusable). */
+export function resolveModelConfig(partial: Partial<ModelConfig> = {}): ModelConfig {
+  const c: ModelConfig = { ...defaultModelConfig(), ...partial };
+  const ints: (keyof ModelConfig)[] = ['nodes', 'observe', 'forecast', 'hidden', 'pairHidden', 'staticDims', 'dynamicDims', 'dynamicStride', 'messageHidden', 'updateHidden', 'reconSteps'];
+  for (const k of ints) {
+    const v = c[k];
+    if (typeof v !== 'number' || !Number.isInteger(v) || v < 1) throw new RangeError(`model config ${k} must be a positive whole number (got ${String(v)})`);
+  }
+  if (c.nodes < 2) throw new RangeError('model config nodes must be at least 2');
+  if (c.observe % c.dynamicStride !== 0) throw new RangeError(`observe (${c.observe}) must be a multiple of dynamicStride (${c.dynamicStride})`);
+  if (c.reconSteps > c.observe - 1) throw new RangeError(`reconSteps (${c.reconSteps}) must be at most observe − 1 (${c.observe - 1})`);
+  if (c.restrictedLabeling && c.dynamicDims < 2) throw new RangeError('restricted labeling needs at least 2 dynamic dimensions');
+  for (const k of ['rolloutWeight', 'beta', 'labelWeight'] as const)
+    if (!(c[k] >= 0) || !Number.isFinite(c[k])) throw new RangeError(`model config ${k} must be a finite number ≥ 0`);
+  if (!(c.rate > 0) || !Number.isFinite(c.rate)) throw new RangeError('model config rate must be a positive number of steps per second');
+  for (const k of ['kinematic', 'noCoupling', 'matchPairing', 'restrictedLabeling'] as const)
+    if (typeof c[k] !== 'boolean') throw new RangeError(`model config ${k} must be true or false`);
+  return c;
+}
+
+/** Returns the number of dynamic factor points over the observed part. */
+export function observedPoints(c: ModelConfig): number {
+  return c.observe / c.dynamicStride;
+}
+
+/** Returns the dynamic factor point that drives the transition from step t to t + 1 (steps counted from the window start). */
+export function pointOfStep(c: ModelConfig, t: number): number {
+  return Math.floor(t / c.dynamicStride);
+}
+
+/** Returns the number of dynamic factor points the observed part and the forecast need together. */
+export function totalPoints(c: ModelConfig): number {
+  return Math.max(observedPoints(c), pointOfStep(c, c.observe + c.forecast - 2) + 1);
+}
+
+/** Returns the observed step whose encoder state gives dynamic point j (the last step of its interval). */
+export function pointStep(c: ModelConfig, j: number): number {
+  return j * c.dynamicStride + c.dynamicStride - 1;
+}

@@ -1,0 +1,193 @@
+// Forecasting from one window: the encoder runs once on the observed part; each sample then draws its
+// own static factors and last dynamic factors from the posterior, rolls the dynamic factors forward with
+// the learned prior (with its noise), decodes the forecast steps from the last observed state, and adds
+// the learned per-step noise (times the model's spread calibration). Samples and their mean are mapped
+// back to world metres with the window's toWorld (so a mirrored window lands on its own take).
+import { denormalise, normalise } from '../motion/normalise.js';
+import { STATE_SIZE } from '../motion/reflect.js';
+import type { Window } from '../motion/window.js';
+import { Pcg32 } from '../nn/prng.js';
+import { observedPoints, pointOfStep, totalPoints } from './config.js';
+import { decoderFactors, decoderForward } from './decoder.js';
+import { encoderForward, type Batch } from './encoder.js';
+import { bandCoverage } from './metrics.js';
+import type { CouplingModel } from './model.js';
+import { createWorkspace, type Workspace } from './workspace.js';
+
+/** Options of forecast. */
+export interface ForecastOptions {
+  /** Number of samples (default 20). */
+  samples?: number;
+  /** Seed of the sampling (default 1): same seed, same samples. */
+  seed?: number;
+}
+
+/** A forecast of the model's forecast steps after a window's last observed step. */
+export interface ForecastResult {
+  steps: number;
+  nodeCount: number;
+  sampleCount: number;
+  /** Mean predicted positions, steps × nodes × 3, world metres (canonical frame, Z up). */
+  mean: Float64Array;
+  /** Sampled positions, samples × steps × nodes × 3, world metres (with the learned noise). */
+  samples: Float64Array;
+  /** Mean predicted state, steps × nodes × 6, world metres and metres per second. */
+  meanState: Float64Array;
+}
+
+/** Reusable buffers of forecasting with one model and sample count. */
+export interface Forecaster {
+  model: CouplingModel;
+  sampleCount: number;
+  encoderWs: Workspace;
+  sampleWs: Workspace;
+  batch: Batch;
+}
+
+/** Returns a forecaster (work buffers) for `samples` samples per forecast. */
+export function createForecaster(model: CouplingModel, samples = 20): Forecaster {
+  const c = model.config, W = c.nodes * STATE_SIZE;
+  const batch: Batch = {
+    size: 1, state: model.store.alloc((c.observe + c.forecast) * W), group: new Int32Array(1),
+    phase: new Float64Array(observedPoints(c)).fill(NaN),
+  };
+  const sampleWs = createWorkspace(model, samples);
+  for (const rc of sampleWs.rollout) rc.keep = false;
+  return { model, sampleCount: samples, encoderWs: createWorkspace(model, 1), sampleWs, batch };
+}
+
+/**
+ * Returns the deterministic decoded paths of every sample (samples × steps × N × 6, normalised, before
+ * the output noise) of the forecaster's sample workspace after encoding `win`; rng draws the factors.
+ */
+function decodePaths(fc: Forecaster, win: Window, rng: Pcg32): Float64Array {
+  const { model, encoderWs: e, sampleWs: s, batch } = fc;
+  const c = model.config, N = c.nodes, W = N * STATE_SIZE, T = c.observe, F = c.forecast, S = c.staticDims, D = c.dynamicDims;
+  const K = observedPoints(c), Kt = totalPoints(c), P = e.pairs.count, Sm = fc.sampleCount, Z = S + D;
+  if (win.observe !== T || win.nodeCount !== N || win.rate !== c.rate)
+    throw new RangeError(`the window has ${win.observe} observed steps of ${win.nodeCount} nodes at ${win.rate} Hz; the model needs ${T} of ${N} at ${c.rate} Hz`);
+  const obs = normalise(model.stats, win.observed, new Float64Array(win.observed.length));
+  batch.state.fill(0);
+  batch.state.set(obs as never, 0);
+  const first = pointOfStep(c, T - 1);
+  // Without coupling the decoder reads no factors, so the encoder is not run.
+  if (!c.noCoupling) {
+    encoderForward(model, e, batch, rng, { sample: false, priorNoise: false });
+    // Per sample: static sample, last posterior dynamic sample, then the prior rolled forward with noise.
+    const A = model.params.priorA.value, cc = model.params.priorC.value, lv = model.params.priorLv.value;
+    const dPrev = new Float64Array(D), dCur = new Float64Array(D);
+    s.zin.fill(0);
+    for (let m = 0; m < Sm; m++)
+      for (let k = 0; k < P; k++) {
+        const i0 = k * S;
+        for (let j = first; j < Kt; j++) {
+          if (j < K) {
+            const o = ((K - 1) * P + k) * D;
+            for (let q = 0; q < D; q++) dCur[q] = j === K - 1 ? e.muD[o + q]! + Math.exp(0.5 * e.lvD[o + q]!) * rng.gauss() : e.muD[(j * P + k) * D + q]!;
+          } else {
+            for (let q = 0; q < D; q++) {
+              let v = cc[q]!;
+              for (let r = 0; r < D; r++) v += dPrev[r]! * A[r * D + q]!;
+              dCur[q] = v + Math.exp(0.5 * lv[q]!) * rng.gauss();
+            }
+          }
+          const z = ((j * Sm + m) * P + k) * Z;
+          for (let q = 0; q < D; q++) s.zin[z + S + q] = dCur[q]!;
+          dPrev.set(dCur);
+        }
+        for (let q = 0; q < S; q++) {
+          const v = e.muSg[i0 + q]! + Math.exp(0.5 * e.lvSg[i0 + q]!) * rng.gauss();
+          for (let j = first; j < Kt; j++) s.zin[((j * Sm + m) * P + k) * Z + q] = v;
+        }
+      }
+    decoderFactors(model, s, Sm, first);
+  }
+  const step = Sm * W;
+  for (let m = 0; m < Sm; m++) s.roll.set(obs.subarray((T - 1) * W, T * W) as never, m * W);
+  const paths = new Float64Array(Sm * F * W);
+  for (let f = 0; f < F; f++) {
+    const rc = s.rollout[f]!;
+    rc.x = s.roll.subarray(f * step, (f + 1) * step);
+    rc.points[0] = pointOfStep(c, T - 1 + f);
+    decoderForward(model, s, rc, Sm);
+    s.roll.set(rc.out.subarray(0, step) as never, (f + 1) * step);
+    for (let m = 0; m < Sm; m++) paths.set(rc.out.subarray(m * W, (m + 1) * W) as never, (m * F + f) * W);
+  }
+  return paths;
+}
+
+/** Returns positions (steps × N × 3) of world state (steps × N × 6). */
+function positionsOf(state: Float64Array, out: Float64Array, offset: number): void {
+  const n = state.length / STATE_SIZE;
+  for (let i = 0; i < n; i++) for (let a = 0; a < 3; a++) out[offset + i * 3 + a] = state[i * STATE_SIZE + a]!;
+}
+
+/** Returns world state of normalised window state (steps × N × 6), through the window's frame. */
+function toWorld(fc: Forecaster, win: Window, state: Float64Array): Float64Array {
+  const out = denormalise(fc.model.stats, state, new Float64Array(state.length));
+  return win.toWorld(out, out);
+}
+
+/** Returns the forecast of the model's forecast steps after `win` (only its observed part is read). */
+export function forecast(model: CouplingModel, win: Window, options: ForecastOptions = {}, forecaster?: Forecaster): ForecastResult {
+  const fc = forecaster ?? createForecaster(model, options.samples ?? 20);
+  if (fc.model !== model) throw new RangeError('the forecaster belongs to another model');
+  const rng = new Pcg32(options.seed ?? 1, 0x666f7265);
+  const c = model.config, N = c.nodes, W = N * STATE_SIZE, F = c.forecast, Sm = fc.sampleCount;
+  const paths = decodePaths(fc, win, rng);
+  const lv = model.params.lvRollout.value, k = model.spreadScale;
+  const meanNorm = new Float64Array(F * W), one = new Float64Array(F * W);
+  const samples = new Float64Array(Sm * F * N * 3);
+  for (let m = 0; m < Sm; m++) {
+    for (let i = 0; i < F * W; i++) {
+      const v = paths[m * F * W + i]!;
+      meanNorm[i] = meanNorm[i]! + v / Sm;
+      one[i] = v + k * Math.exp(0.5 * lv[i]!) * rng.gauss();
+    }
+    positionsOf(toWorld(fc, win, one), samples, m * F * N * 3);
+  }
+  const meanState = toWorld(fc, win, meanNorm);
+  const mean = new Float64Array(F * N * 3);
+  positionsOf(meanState, mean, 0);
+  return { steps: F, nodeCount: N, sampleCount: Sm, mean, samples, meanState };
+}
+
+/**
+ * Returns the spread scale (also stored in model.spreadScale) that makes the central `level` band of the
+ * samples cover that share of the held-out windows' future positions, by bisection on a log scale.
+ */
+export function calibrateSpread(model: CouplingModel, windows: readonly Window[], options: ForecastOptions & { level?: number } = {}): number {
+  const level = options.level ?? 0.9, fc = createForecaster(model, options.samples ?? 20);
+  const c = model.config, N = c.nodes, W = N * STATE_SIZE, F = c.forecast, Sm = fc.sampleCount;
+  const lv = model.params.lvRollout.value;
+  const cases = windows.filter((w) => w.futureSteps === F).map((win, i) => {
+    const rng = new Pcg32((options.seed ?? 1) + i, 0x63616c);
+    const paths = decodePaths(fc, win, rng);
+    const eps = new Float64Array(paths.length);
+    rng.fillGauss(eps);
+    const truth = new Float64Array(F * N * 3);
+    positionsOf(win.toWorld(Float64Array.from(win.future), new Float64Array(win.future.length)), truth, 0);
+    return { win, paths, eps, truth };
+  });
+  if (cases.length === 0) return model.spreadScale;
+  const coverage = (k: number): number => {
+    let sum = 0;
+    const one = new Float64Array(F * W), pos = new Float64Array(Sm * F * N * 3);
+    for (const cs of cases) {
+      for (let m = 0; m < Sm; m++) {
+        for (let i = 0; i < F * W; i++) one[i] = cs.paths[m * F * W + i]! + k * Math.exp(0.5 * lv[i]!) * cs.eps[m * F * W + i]!;
+        positionsOf(toWorld(fc, cs.win, one), pos, m * F * N * 3);
+      }
+      sum += bandCoverage(pos, Sm, cs.truth, level);
+    }
+    return sum / cases.length;
+  };
+  let lo = Math.log(1e-3), hi = Math.log(1e3);
+  for (let it = 0; it < 30; it++) {
+    const mid = 0.5 * (lo + hi);
+    if (coverage(Math.exp(mid)) < level) lo = mid;
+    else hi = mid;
+  }
+  model.spreadScale = Math.exp(0.5 * (lo + hi));
+  return model.spreadScale;
+}

@@ -1,0 +1,127 @@
+// The model file: versioned JSON holding the format tag, the schema version, the node (role) set, the
+// normalisation statistics, the configuration, the training summary, the parameter layout and the
+// weights as base64 little-endian Float32 with their SHA-256. Loading rebuilds the model from its own
+// configuration and refuses, with an InputError naming the file and the problem, anything that is not
+// exactly such a file: unreadable or truncated JSON, another format or version, a node set or layout
+// that does not match, a wrong weight count or a checksum mismatch.
+import { createHash } from 'node:crypto';
+import { readFileSync } from 'node:fs';
+import { InputError } from '../errors/index.js';
+import { statsFromJson, statsToJson, type MotionStatsJson } from '../motion/normalise.js';
+import { writeFileAtomic } from '../util/atomic.js';
+import { resolveModelConfig, type ModelConfig } from './config.js';
+import { createModel, type CouplingModel } from './model.js';
+import type { TrainingSummary } from './train.js';
+
+/** Format tag and schema version of model files. */
+export const MODEL_FORMAT = 'jointloom-coupling-model';
+export const MODEL_VERSION = 1;
+
+/** The JSON form of a model file. */
+export interface ModelFileJson {
+  format: typeof MODEL_FORMAT;
+  version: typeof MODEL_VERSION;
+  nodes: string[];
+  config: ModelConfig;
+  stats: MotionStatsJson;
+  spreadScale: number;
+  training: TrainingSummary | null;
+  /** Extra data other layers store with the model (e.g. normative factor statistics); plain JSON. */
+  extras: Record<string, unknown>;
+  layout: { name: string; shape: number[] }[];
+  weights: { dtype: 'float32'; count: number; sha256: string; base64: string };
+}
+
+/** Returns the model as a model-file JSON value. */
+export function modelToJson(model: CouplingModel, training: TrainingSummary | null = null, extras: Record<string, unknown> = {}): ModelFileJson {
+  const v = model.store.valueView();
+  const f32 = v instanceof Float32Array ? Float32Array.from(v) : Float32Array.from(v);
+  const bytes = Buffer.from(f32.buffer, f32.byteOffset, f32.byteLength);
+  if (!littleEndian()) swap32(bytes);
+  return {
+    format: MODEL_FORMAT, version: MODEL_VERSION, nodes: [...model.stats.nodes], config: { ...model.config },
+    stats: statsToJson(model.stats), spreadScale: model.spreadScale, training, extras,
+    layout: model.store.params.map((p) => ({ name: p.name, shape: [...p.shape] })),
+    weights: { dtype: 'float32', count: f32.length, sha256: createHash('sha256').update(bytes).digest('hex'), base64: bytes.toString('base64') },
+  };
+}
+
+/** Writes the model file atomically and returns its path. */
+export function saveModel(path: string, model: CouplingModel, training: TrainingSummary | null = null, extras: Record<string, unknown> = {}): string {
+  return writeFileAtomic(path, JSON.stringify(modelToJson(model, training, extras)) + '\n');
+}
+
+/** A loaded model with what was stored beside it. */
+export interface LoadedModel {
+  model: CouplingModel;
+  training: TrainingSummary | null;
+  extras: Record<string, unknown>;
+}
+
+/** Returns the model read from `path`; throws InputError naming the file and the problem when it cannot be used. */
+export function loadModel(path: string): LoadedModel {
+  let text: string;
+  try {
+    text = readFileSync(path, 'utf8');
+  } catch (e) {
+    throw new InputError(`${path}: cannot read the model file (${(e as NodeJS.ErrnoException).code ?? (e as Error).message}).`);
+  }
+  let value: unknown;
+  try {
+    value = JSON.parse(text);
+  } catch {
+    throw new InputError(`${path}: the model file is not valid JSON (corrupt or truncated).`);
+  }
+  return modelFromJson(value, path);
+}
+
+/** Returns the model of a parsed model-file value; `source` names it in errors. */
+export function modelFromJson(value: unknown, source: string): LoadedModel {
+  const bad = (why: string): never => {
+    throw new InputError(`${source}: not a usable jointloom model file: ${why}.`);
+  };
+  if (typeof value !== 'object' || value === null || Array.isArray(value)) return bad('expected a JSON object');
+  const v = value as Partial<ModelFileJson>;
+  if (v.format !== MODEL_FORMAT) bad(`format is ${JSON.stringify(v.format)}, expected "${MODEL_FORMAT}"`);
+  if (v.version !== MODEL_VERSION) bad(`schema version ${JSON.stringify(v.version)} is not supported (this build reads version ${MODEL_VERSION})`);
+  let config: ModelConfig;
+  try {
+    config = resolveModelConfig(v.config as Partial<ModelConfig>);
+  } catch (e) {
+    return bad(`its configuration is invalid (${(e as Error).message})`);
+  }
+  if (typeof v.config !== 'object' || v.config === null) bad('the configuration is missing');
+  const stats = statsFromJson(v.stats, source);
+  if (!Array.isArray(v.nodes) || v.nodes.length !== config.nodes || v.nodes.some((n, i) => n !== stats.nodes[i]))
+    bad(`its node set (${JSON.stringify(v.nodes)}) does not match its configuration and statistics`);
+  const w = v.weights;
+  if (!w || typeof w !== 'object' || w.dtype !== 'float32' || typeof w.base64 !== 'string' || typeof w.sha256 !== 'string' || typeof w.count !== 'number')
+    return bad('the weights block is missing or malformed');
+  const model = createModel(config, stats, { seed: 1 });
+  const size = model.store.size;
+  const layout = model.store.params.map((p) => `${p.name}[${p.shape.join('x')}]`);
+  if (!Array.isArray(v.layout) || v.layout.length !== layout.length || v.layout.some((p, i) => `${p?.name}[${Array.isArray(p?.shape) ? p.shape.join('x') : ''}]` !== layout[i]))
+    bad('its parameter layout does not match the layout of its configuration');
+  if (w.count !== size) bad(`it holds ${w.count} weights, its configuration needs ${size}`);
+  const bytes = Buffer.from(w.base64, 'base64');
+  if (bytes.length !== size * 4) bad(`the weights hold ${bytes.length} bytes, ${size * 4} expected (truncated?)`);
+  const sum = createHash('sha256').update(bytes).digest('hex');
+  if (sum !== w.sha256) bad('the weights do not match their SHA-256 checksum (the file is corrupt)');
+  if (!littleEndian()) swap32(bytes);
+  const f32 = new Float32Array(bytes.buffer.slice(bytes.byteOffset, bytes.byteOffset + bytes.length));
+  for (let i = 0; i < f32.length; i++) if (!Number.isFinite(f32[i]!)) bad(`weight ${i} is not a finite number`);
+  model.store.valueView().set(f32 as never);
+  const spread = v.spreadScale;
+  if (typeof spread !== 'number' || !(spread > 0) || !Number.isFinite(spread)) bad('spreadScale must be a finite positive number');
+  model.spreadScale = spread!;
+  const extras = typeof v.extras === 'object' && v.extras !== null ? v.extras : {};
+  return { model, training: (v.training ?? null) as TrainingSummary | null, extras };
+}
+
+function littleEndian(): boolean {
+  return new Uint8Array(new Uint32Array([1]).buffer)[0] === 1;
+}
+
+function swap32(b: Buffer): void {
+  b.swap32();
+}

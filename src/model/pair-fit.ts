@@ -1,0 +1,60 @@
+// Fitting the coupling model and its no-coupling twin on the same takes and budget, then calibrating
+// the spread of each on the held-out subjects' windows, as `jointloom fit` stores them.
+import type { Track } from '../motion/track.js';
+import { windowsOf } from '../motion/window.js';
+import type { TrainingTake } from './batch.js';
+import { calibrateSpread } from './forecast.js';
+import type { CouplingModel } from './model.js';
+import { modelFromJson, modelToJson, saveModel, type LoadedModel } from './modelfile.js';
+import { train, type TrainOptions, type TrainProgress, type TrainingSummary } from './train.js';
+
+export interface FittedPair {
+  model: CouplingModel;
+  summary: TrainingSummary;
+  twin: CouplingModel | null;
+  twinSummary: TrainingSummary | null;
+  /** Spread scales fitted so the 90 % band covers 90 % of held-out future positions. */
+  spread: { model: number; twin: number | null };
+}
+
+/** Returns held-out windows (every `stride` steps) of the takes of the given subjects. */
+function heldOutWindows(takes: readonly TrainingTake[], subjects: readonly string[], model: CouplingModel, stride: number) {
+  const c = model.config;
+  const out = [];
+  for (const t of takes) {
+    if (!subjects.includes(t.subject)) continue;
+    for (const w of windowsOf(t.track as Track, stride, { observe: c.observe, forecast: c.forecast })) if (w.futureSteps === c.forecast) out.push(w);
+  }
+  return out;
+}
+
+/** Returns the model and (unless `twin` is false) its retrained no-coupling twin, spreads calibrated. */
+export function fitPair(
+  takes: readonly TrainingTake[],
+  options: TrainOptions & { twin?: boolean; onPhase?: (phase: 'model' | 'twin' | 'calibrate') => void; onProgress?: (p: TrainProgress) => void },
+): FittedPair {
+  options.onPhase?.('model');
+  const { model, summary } = train(takes, options);
+  let twin: CouplingModel | null = null, twinSummary: TrainingSummary | null = null;
+  if (options.twin !== false) {
+    options.onPhase?.('twin');
+    const r = train(takes, { ...options, config: { ...options.config, noCoupling: true }, stats: model.stats });
+    twin = r.model;
+    twinSummary = r.summary;
+  }
+  options.onPhase?.('calibrate');
+  const wins = heldOutWindows(takes, summary.validSubjects, model, 15);
+  const spread = { model: wins.length ? calibrateSpread(model, wins) : model.spreadScale, twin: twin && wins.length ? calibrateSpread(twin, wins) : null };
+  return { model, summary, twin, twinSummary, spread };
+}
+
+/** Writes the pair to one model file (the twin under extras.no_coupling) and returns the path. */
+export function savePair(path: string, p: FittedPair): string {
+  return saveModel(path, p.model, p.summary, p.twin ? { no_coupling: modelToJson(p.twin, p.twinSummary) } : {});
+}
+
+/** Returns the twin stored beside a loaded model, or null when the file has none. */
+export function twinOf(loaded: LoadedModel, source: string): CouplingModel | null {
+  const t = loaded.extras.no_coupling;
+  return t ? modelFromJson(t, `${source} (no-coupling twin)`).model : null;
+}
