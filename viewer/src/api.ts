@@ -1,0 +1,33 @@
+// Reads the viewer's API from the server that served the page (same origin only).
+import type { ViewEvents, ViewGait, ViewPairs, ViewTake } from '../../src/view/types.js';
+
+async function getJson<T>(path: string): Promise<T> {
+  const res = await fetch(path, { cache: 'no-store' });
+  if (!res.ok) throw new Error(`${path}: ${res.status} ${res.statusText}`);
+  return (await res.json()) as T;
+}
+
+export interface LoadedTake {
+  take: ViewTake;
+  positions: Float32Array;
+  events: ViewEvents;
+  gait: ViewGait;
+  pairs: ViewPairs | null;
+}
+
+/** Returns the take, its display positions, events, gait summary and pair measure. */
+export async function loadTake(): Promise<LoadedTake> {
+  const take = await getJson<ViewTake>('./api/take');
+  const [bytes, events, gait, pairs] = await Promise.all([
+    fetch('.' + take.positions.path, { cache: 'no-store' }).then((r) => {
+      if (!r.ok) throw new Error(`${take.positions.path}: ${r.status}`);
+      return r.arrayBuffer();
+    }),
+    getJson<ViewEvents>('./api/events'),
+    getJson<ViewGait>('./api/gait'),
+    take.features.pairs ? getJson<ViewPairs>('./api/pairs') : Promise.resolve(null),
+  ]);
+  const expected = take.displayFrames * take.joints.length * 3 * 4;
+  if (bytes.byteLength !== expected) throw new Error(`positions: expected ${expected} bytes, got ${bytes.byteLength}`);
+  return { take, positions: new Float32Array(bytes), events, gait, pairs };
+}
