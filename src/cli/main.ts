@@ -8,8 +8,11 @@ import { register as registerExport } from './export.js';
 import { register as registerSynth } from './synth.js';
 import { register as registerGait } from './gait.js';
 import { register as registerNorms } from './norms.js';
+import { register as registerFit } from './fit.js';
+import { register as registerForecast } from './forecast.js';
 import { register as registerBatch } from './batch.js';
 import { register as registerLedger } from './ledger.js';
+import { register as registerView } from './view.js';
 
 /** Returns the program with every command registered. */
 export function buildProgram(): Command {
@@ -22,9 +25,12 @@ export function buildProgram(): Command {
   registerExport(program);
   registerGait(program);
   registerNorms(program);
+  registerFit(program);
+  registerForecast(program);
   registerSynth(program);
   registerBatch(program);
   registerLedger(program);
+  registerView(program);
   return program;
 }
 

@@ -17,6 +17,8 @@ type SectionRunner = (input: BenchInput, options: RunOptions) => Section | Promi
 const SECTIONS: SectionRunner[] = [
   (input, o) => runParseFk({ input, reps: o.quick ? 9 : 7, threeReps: o.quick ? 5 : 3, memoryReps: 3 }),
   async (_input, o) => (await import('./train-step.js')).runTrainStep({ reps: o.quick ? 3 : 5, cpuReps: o.quick ? 1 : 2 }),
+  async (input) => (await import('./viewer.js')).runViewer({ input }),
+  async (_input, o) => (await import('./model-step.js')).runModelStep({ reps: o.quick ? 3 : 5 }),
   async (_input, o) => (await import('./batch.js')).runBatchBench({ reps: o.quick ? 1 : 3, cohort: o.quick ? 10 : 100 }),
 ];
 
