@@ -1,0 +1,71 @@
+// fit and forecast as a user runs them: a tiny training run writes a model file with its no-coupling
+// twin; forecast scores the model, the twin and every baseline on the recorded future; a corrupt model
+// file and an impossible --at are refused with one line.
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { synthesizeTake } from '../../src/synth/index.js';
+import { runCli } from './run.js';
+
+const tmp = mkdtempSync(join(tmpdir(), 'jointloom-fit-'));
+afterAll(() => rmSync(tmp, { recursive: true, force: true }));
+const model = join(tmp, 'model.json');
+
+beforeAll(() => {
+  // Three invented subjects, one take each, with session sidecars naming them.
+  for (const [i, s] of ['P1', 'P2', 'P3'].entries()) {
+    writeFileSync(join(tmp, `${s}.bvh`), synthesizeTake({ seed: 9100 + i, duration: 6, frameRate: 60 }).bvhText);
+    writeFileSync(join(tmp, `${s}.json`), JSON.stringify({ subject: s, session: 1 }));
+  }
+});
+
+describe('fit and forecast commands', () => {
+  it('fit trains the model and its twin and writes one model file', async () => {
+    const r = await runCli(['fit', join(tmp, 'P1.bvh'), join(tmp, 'P2.bvh'), join(tmp, 'P3.bvh'), '-o', model, '--epochs', '1', '--json']);
+    expect(r.code).toBe(0);
+    const s = JSON.parse(r.stdout);
+    expect(s.subjects).toBe(3);
+    expect(s.valid_subjects.length).toBeGreaterThanOrEqual(1);
+    expect(s.twin).not.toBeNull();
+    const file = JSON.parse(readFileSync(model, 'utf8'));
+    expect(file.format).toBe('jointloom-coupling-model');
+    expect(file.extras.no_coupling.config.noCoupling).toBe(true);
+  }, 300_000);
+
+  it('forecast --json scores the model, the twin and every baseline at the three horizons', async () => {
+    const r = await runCli(['forecast', join(tmp, 'P2.bvh'), '--model', model, '--at', '3', '--samples', '6', '--json']);
+    expect(r.code).toBe(0);
+    const j = JSON.parse(r.stdout);
+    expect(j.horizons_s).toEqual([0.25, 0.5, 1]);
+    for (const m of ['model', 'constant_velocity', 'zero_motion', 'last_stride', 'stride_mean', 'no_coupling']) {
+      expect(Object.keys(j.mpjpe_mm[m])).toEqual(['0.25', '0.5', '1.0']);
+      for (const v of Object.values(j.mpjpe_mm[m]) as number[]) expect(Number.isFinite(v)).toBe(true);
+    }
+    expect(j.coverage_90).toBeGreaterThanOrEqual(0);
+    expect(j.coverage_90).toBeLessThanOrEqual(1);
+    expect(j.predicted.mean).toHaveLength(30);
+    expect(j.predicted.samples).toHaveLength(6);
+    expect(j.predicted.nodes).toHaveLength(17);
+  }, 120_000);
+
+  it('forecast --every gives a surprise timeline', async () => {
+    const r = await runCli(['forecast', join(tmp, 'P1.bvh'), '--model', model, '--every', '0.5', '--samples', '4', '--json']);
+    expect(r.code).toBe(0);
+    const j = JSON.parse(r.stdout);
+    expect(j.timeline.length).toBeGreaterThanOrEqual(4);
+    expect(typeof j.timeline[0].surprise).toBe('number');
+  }, 120_000);
+
+  it('a corrupt model file and an --at without 2 s observed are refused with one line', async () => {
+    const bad = join(tmp, 'bad.json');
+    writeFileSync(bad, readFileSync(model, 'utf8').slice(0, 500));
+    const a = await runCli(['forecast', join(tmp, 'P1.bvh'), '--model', bad]);
+    expect(a.code).toBe(1);
+    expect(a.stderr.trim().split('\n')).toHaveLength(1);
+    expect(a.stderr).toContain('bad.json');
+    const b = await runCli(['forecast', join(tmp, 'P1.bvh'), '--model', model, '--at', '1']);
+    expect(b.code).toBe(2);
+    expect(b.stderr).toMatch(/outside/);
+  }, 120_000);
+});
