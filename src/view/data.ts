@@ -72,6 +72,7 @@ export function buildViewData(imported: ImportedTake, options: ViewDataOptions):
     up: `${frame.up.sign < 0 ? '-' : '+'}${frame.up.up}`,
     positions: { path: '/api/positions', byteLength: positions.byteLength, layout: `${displayFrames} frames x ${joints.length} joints x 3, float32 little-endian, metres, Y up` },
     features: { gait: gait.available, pairs: true, forecast: false, factors: false },
+    forecast: null,
     warnings: imported.warnings,
     caution: options.caution,
   };

@@ -7,13 +7,16 @@
 //   /api/events       gait events and walking passes
 //   /api/gait         the gait result (the JSON of `jointloom gait`) or why there is none
 //   /api/pairs        the pair-line layer's measure (pair distance spread)
-// Later, with the coupling model: /api/forecast?t=SECONDS and /api/factors.
+//   /api/forecast     ?t=SECONDS&samples=N: the model's forecast from t (only when a model was given;
+//                     a bad t or N is 400 with a JSON error)
+// Later: /api/factors.
 // Anything else is 404; a Host header that is not a loopback name is 403.
 import { createServer, type IncomingMessage, type Server, type ServerResponse } from 'node:http';
 import { existsSync, readFileSync, realpathSync } from 'node:fs';
 import { extname, join } from 'node:path';
 import { InputError } from '../errors/index.js';
 import type { ViewData } from './data.js';
+import type { ForecastService } from './forecast.js';
 import { hostHeaderAllowed, loopbackHost, originOf } from './host.js';
 import { CONTENT_TYPES, resolveStatic } from './static.js';
 
@@ -25,6 +28,8 @@ export interface ViewServerOptions {
   host?: string;
   /** Port; 0 (the default) takes a free one. */
   port?: number;
+  /** The forecasts of a loaded model; without it /api/forecast is 404 and features.forecast false. */
+  forecast?: ForecastService | null;
 }
 
 export interface ViewServer {
@@ -50,10 +55,11 @@ interface Body {
 }
 
 /** Returns the API bodies, serialised once. */
-function apiBodies(data: ViewData): Map<string, Body> {
+function apiBodies(data: ViewData, forecast: ForecastService | null): Map<string, Body> {
   const json = (v: unknown): Body => ({ type: 'application/json; charset=utf-8', bytes: Buffer.from(JSON.stringify(v)) });
+  const take = forecast ? { ...data.take, features: { ...data.take.features, forecast: true }, forecast: forecast.info } : data.take;
   return new Map([
-    ['/api/take', json(data.take)],
+    ['/api/take', json(take)],
     ['/api/positions', { type: 'application/octet-stream', bytes: data.positions }],
     ['/api/events', json(data.events)],
     ['/api/gait', json(data.gait)],
@@ -76,7 +82,8 @@ export async function startViewServer(options: ViewServerOptions): Promise<ViewS
     throw new InputError(`the viewer is not built (no index.html in ${options.staticRoot}); run \`npm run build\` first.`);
   const root = realpathSync(options.staticRoot);
   const host = loopbackHost(options.host ?? '127.0.0.1');
-  const api = apiBodies(options.data);
+  const forecast = options.forecast ?? null;
+  const api = apiBodies(options.data, forecast);
   let port = options.port ?? 0;
 
   const server = createServer((req, res) => {
@@ -89,6 +96,17 @@ export async function startViewServer(options: ViewServerOptions): Promise<ViewS
     }
     const body = api.get(path);
     if (body) return send(res, req, 200, body.type, body.bytes, 'no-store');
+    if (path === '/api/forecast' && forecast) {
+      const query = new URLSearchParams(raw.slice(path.length).split('#', 1)[0]!.replace(/^\?/, ''));
+      let answer: ReturnType<ForecastService['answer']>;
+      try {
+        answer = forecast.answer(query);
+      } catch (err) {
+        return sendError(res, req, 500, `the forecast failed: ${err instanceof Error ? err.message : String(err)}`);
+      }
+      if (!Buffer.isBuffer(answer)) return sendError(res, req, answer.status, answer.error);
+      return send(res, req, 200, 'application/json; charset=utf-8', answer, 'no-store');
+    }
     if (path.startsWith('/api/')) return sendError(res, req, 404, 'no such API route');
     const file = resolveStatic(root, path);
     if (!file) return sendError(res, req, 404, 'not found');

@@ -1,6 +1,6 @@
 // The JSON shapes of the viewer's API (`jointloom view`), shared by the server and the browser app.
-// Forecast and factor endpoints join later under /api/forecast?t= and /api/factors; `features` tells
-// the page which of them the server offers.
+// The forecast endpoint (/api/forecast?t=) answers when a model was given; the factor endpoint joins
+// later under /api/factors; `features` tells the page which of them the server offers.
 
 /** Which side of the body a joint belongs to, for colour and line style. */
 export type ViewSide = 'left' | 'right' | 'centre';
@@ -39,6 +39,8 @@ export interface ViewTake {
   /** GET /api/positions: displayFrames x joints x 3 float32, little-endian, metres, Y up, right-handed. */
   positions: { path: string; byteLength: number; layout: string };
   features: { gait: boolean; pairs: boolean; forecast: boolean; factors: boolean };
+  /** The loaded model's timing, when a model was given (else null). */
+  forecast: ViewForecastInfo | null;
   warnings: string[];
   caution: string;
 }
@@ -81,4 +83,53 @@ export interface ViewPairs {
   min: number;
   max: number;
   pairs: ViewPair[];
+}
+
+/** What the page needs to know of the model before asking for a forecast. */
+export interface ViewForecastInfo {
+  /** Model file name (no folder). */
+  model: string;
+  /** Model rate (steps per second), observed and forecast seconds. */
+  rate: number;
+  observeS: number;
+  horizonS: number;
+  /** Earliest and latest start time a forecast may be asked for, seconds. */
+  firstS: number;
+  lastS: number;
+  /** The model's node roles and the node index pairs drawn as bones (as in every forecast). */
+  nodes: string[];
+  bones: [number, number][];
+}
+
+/** Scores of a forecast against the recorded future: mean per-joint error in mm per method and horizon. */
+export interface ViewForecastScores {
+  horizons_s: number[];
+  /** Method name (model, stride_mean, ...) to one error per horizon, mm. */
+  mpjpe_mm: Record<string, number[]>;
+  coverage_90: number | null;
+  surprise: number | null;
+}
+
+/** GET /api/forecast?t=SECONDS&samples=N: the model's forecast from the last observed step at t. */
+export interface ViewForecast {
+  format: 'jointloom-view-forecast';
+  version: 1;
+  /** Time of the last observed step used: the t asked for, rounded to the model's 30 Hz grid. */
+  time_s: number;
+  endStep: number;
+  rate: number;
+  /** Forecast steps (step k, k = 1..steps, lies k / rate after time_s). */
+  steps: number;
+  /** The model's node roles, and per node the take's joints it stands on (two equal indices, or a midpoint's two). */
+  nodes: string[];
+  nodeJoints: [number, number][];
+  /** Node index pairs to draw as bones. */
+  bones: [number, number][];
+  frame: string;
+  /** Mean positions: steps x nodes x 3, flat, display frame (metres, Y up). */
+  mean: number[];
+  /** Samples, each steps x nodes x 3 flat, display frame. */
+  samples: number[][];
+  /** Null when the take ends before the forecast second does. */
+  scores: ViewForecastScores | null;
 }

@@ -26,6 +26,7 @@ describe('jointloom view', () => {
     expect(r.code).toBe(0);
     expect(r.stdout).toContain('--port');
     expect(r.stdout).toContain('--host');
+    expect(r.stdout).toContain('--model');
     expect(r.stdout).toContain('not a diagnostic device');
   });
 
@@ -38,6 +39,13 @@ describe('jointloom view', () => {
 
   test('--port outside 0-65535 is a usage error', async () => {
     expect((await runCli(['view', take, '--port', '70000'])).code).toBe(2);
+  });
+
+  test('a missing model file is one line naming it, exit 1', async () => {
+    const r = await runCli(['view', take, '--model', join(work, 'no-model.json')]);
+    expect(r.code).toBe(1);
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+    expect(r.stderr).toContain('no-model.json');
   });
 
   test('a missing take is one line and exit 1', async () => {

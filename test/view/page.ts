@@ -20,7 +20,12 @@ export interface ViewHook {
   rendered: number;
   firstFrameMs: number | null;
   playing: boolean;
+  forecastOn: boolean;
+  forecastsReceived: number;
+  forecastTime: number | null;
+  forecastStep: number;
   seek(d: number): void;
+  setForecast(on: boolean): void;
   setPlaying(on: boolean): void;
   probe(): Probe;
 }

@@ -66,6 +66,8 @@ describe('API', () => {
     expect(t.durationS).toBeCloseTo(6, 6);
     expect(t.caution).toBe('Caution: test build.');
     expect(t.features).toEqual({ gait: true, pairs: true, forecast: false, factors: false });
+    // Without a model the forecast is off: no timing, and /api/forecast is 404 (see the unknown paths below).
+    expect(t.forecast).toBeNull();
     expect(t.positions.byteLength).toBe(360 * t.joints.length * 3 * 4);
     expect(t.units).toBe('m');
     expect(t.up).toBe('+z');

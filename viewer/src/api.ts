@@ -1,5 +1,5 @@
 // Reads the viewer's API from the server that served the page (same origin only).
-import type { ViewEvents, ViewGait, ViewPairs, ViewTake } from '../../src/view/types.js';
+import type { ViewEvents, ViewForecast, ViewGait, ViewPairs, ViewTake } from '../../src/view/types.js';
 
 async function getJson<T>(path: string): Promise<T> {
   const res = await fetch(path, { cache: 'no-store' });
@@ -30,4 +30,14 @@ export async function loadTake(): Promise<LoadedTake> {
   const expected = take.displayFrames * take.joints.length * 3 * 4;
   if (bytes.byteLength !== expected) throw new Error(`positions: expected ${expected} bytes, got ${bytes.byteLength}`);
   return { take, positions: new Float32Array(bytes), events, gait, pairs };
+}
+
+/** Returns the model's forecast from time t (seconds) with `samples` samples; throws with the server's message. */
+export async function fetchForecast(t: number, samples: number): Promise<ViewForecast> {
+  const res = await fetch(`./api/forecast?t=${t.toFixed(4)}&samples=${samples}`, { cache: 'no-store' });
+  if (!res.ok) {
+    const body = (await res.json().catch(() => null)) as { error?: string } | null;
+    throw new Error(body?.error ?? `forecast: ${res.status} ${res.statusText}`);
+  }
+  return (await res.json()) as ViewForecast;
 }

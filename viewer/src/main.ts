@@ -1,6 +1,9 @@
 // jointloom view: loads the take from the server that served the page and replays it.
 import { Vector3 } from 'three';
 import { loadTake, type LoadedTake } from './api.js';
+import { ForecastControl } from './forecast-control.js';
+import { renderForecastPanel } from './forecast-panel.js';
+import { ForecastView } from './forecast-view.js';
 import { actionOf, keyLabel, SHORTCUTS, type Action } from './keys.js';
 import { renderSummary } from './panel.js';
 import { PairLines, paintLegendBar, type PairFilter } from './pairlines.js';
@@ -19,7 +22,13 @@ interface ViewHook {
   rendered: number;
   firstFrameMs: number | null;
   playing: boolean;
+  /** Forecast overlay: on, forecasts received, the start time and step drawn (null and 0 when none). */
+  forecastOn: boolean;
+  forecastsReceived: number;
+  forecastTime: number | null;
+  forecastStep: number;
   seek(d: number): void;
+  setForecast(on: boolean): void;
   setPlaying(on: boolean): void;
   probe(): ProbeResult;
 }
@@ -30,11 +39,15 @@ declare global {
   }
 }
 
+/** Samples asked for with each forecast. */
+const FORECAST_SAMPLES = 8;
+
 const $ = <T extends HTMLElement>(id: string) => document.getElementById(id) as T;
 
 const hook: ViewHook = {
   ready: false, error: null, frame: 0, sourceFrame: 0, rendered: 0, firstFrameMs: null, playing: false,
-  seek: () => {}, setPlaying: () => {}, probe: () => ({ width: 0, height: 0, nonBackground: 0, left: 0, right: 0, hash: 0 }),
+  forecastOn: false, forecastsReceived: 0, forecastTime: null, forecastStep: 0,
+  seek: () => {}, setPlaying: () => {}, setForecast: () => {}, probe: () => ({ width: 0, height: 0, nonBackground: 0, left: 0, right: 0, hash: 0 }),
 };
 window.__jointloomView = hook;
 
@@ -69,6 +82,8 @@ function start(data: LoadedTake): void {
   const stage = createStage(stageHost);
   const skeleton = new SkeletonView(take, positions);
   stage.scene.add(skeleton.group);
+  const forecastView = take.forecast ? new ForecastView(take.forecast.nodes.length, take.forecast.bones, FORECAST_SAMPLES) : null;
+  if (forecastView) stage.scene.add(forecastView.group);
   const pairLines = pairs && pairs.pairs.length ? new PairLines(pairs, positions, take.joints.length) : null;
   if (pairLines) stage.scene.add(pairLines.lines);
   if (pairs) {
@@ -110,6 +125,26 @@ function start(data: LoadedTake): void {
   const speedSel = $<HTMLSelectElement>('speed');
   const followBox = $<HTMLInputElement>('follow');
   const pairsBox = $<HTMLInputElement>('pairs');
+  const forecastBox = $<HTMLInputElement>('forecast');
+  const forecastKey = $('key-forecast');
+  const forecastPanel = $('forecast-panel');
+  const forecast = forecastView && take.forecast
+    ? new ForecastControl(forecastView, take.forecast, (st) => renderForecastPanel(forecastPanel, take.forecast, st), FORECAST_SAMPLES)
+    : null;
+  forecastBox.disabled = !forecast;
+  if (!forecast) {
+    $('forecast-label').textContent = 'no model given: forecast off';
+    $('forecast-label').title = 'start the viewer with --model FILE to draw the forecast';
+    renderForecastPanel(forecastPanel, null, { kind: 'off' });
+  }
+  const setForecast = (on: boolean) => {
+    if (!forecast) return;
+    forecastBox.checked = on;
+    forecast.setOn(on);
+    forecastKey.hidden = !on;
+    hook.forecastOn = on;
+    updateForecast();
+  };
   const legend = $('legend');
   const help = $('help');
   let shown = -1;
@@ -136,6 +171,13 @@ function start(data: LoadedTake): void {
     strip.draw(d);
     hook.frame = d;
     hook.sourceFrame = src;
+  };
+  const updateForecast = () => {
+    if (!forecast) return;
+    forecast.update((playback.frame * take.stride) / take.sourceFps, playback.playing);
+    hook.forecastsReceived = forecast.received;
+    hook.forecastStep = forecast.step;
+    hook.forecastTime = forecast.step ? forecastView!.forecast!.time_s : null;
   };
   const setPlaying = (on: boolean) => {
     playback.playing = on;
@@ -178,6 +220,7 @@ function start(data: LoadedTake): void {
       case 'prevEvent': { const f = [...eventFrames].reverse().find((x) => x < playback.frame); if (f !== undefined) { setPlaying(false); show(playback.seek(f)); } break; }
       case 'follow': followBox.checked = !followBox.checked; if (followBox.checked) resetCamera(playback.frame); break;
       case 'pairs': setPairs(!pairsBox.checked); break;
+      case 'forecast': setForecast(!forecastBox.checked); break;
       case 'camera': resetCamera(playback.frame); break;
       case 'help': help.hidden = !help.hidden; break;
       case 'close': help.hidden = true; break;
@@ -193,6 +236,7 @@ function start(data: LoadedTake): void {
   speedSel.addEventListener('change', () => { playback.speed = Number(speedSel.value) || 1; if (!SPEEDS.includes(playback.speed)) playback.speed = 1; });
   followBox.addEventListener('change', () => { if (followBox.checked) resetCamera(playback.frame); });
   pairsBox.addEventListener('change', () => setPairs(pairsBox.checked));
+  forecastBox.addEventListener('change', () => setForecast(forecastBox.checked));
   scrub.addEventListener('input', () => { setPlaying(false); show(playback.seek(Number(scrub.value))); });
   const stripCanvas = $<HTMLCanvasElement>('events-strip');
   stripCanvas.addEventListener('pointerdown', (e) => { setPlaying(false); show(playback.seek(strip.frameAt(e.clientX))); });
@@ -213,6 +257,7 @@ function start(data: LoadedTake): void {
     skeleton.setResolution(w * px, h * px);
     gridMaterial.resolution.set(w * px, h * px);
     pairLines?.material.resolution.set(w * px, h * px);
+    forecastView?.setResolution(w * px, h * px);
     shown = -1;
     show(playback.frame);
   };
@@ -230,6 +275,7 @@ function start(data: LoadedTake): void {
     const dt = Math.min(0.25, (now - last) / 1000);
     last = now;
     show(playback.advance(dt));
+    updateForecast();
     render();
     if (hook.firstFrameMs === null) hook.firstFrameMs = performance.now();
     fpsCount++;
@@ -244,7 +290,8 @@ function start(data: LoadedTake): void {
 
   hook.seek = (d: number) => { setPlaying(false); show(playback.seek(d)); };
   hook.setPlaying = setPlaying;
-  hook.probe = () => { render(); return probe(stage.renderer, stage.background); };
+  hook.setForecast = setForecast;
+  hook.probe = () => { updateForecast(); render(); return probe(stage.renderer, stage.background); };
   hook.ready = true;
 }
 
