@@ -9,6 +9,7 @@ import { allocateWindow, fillWindow, resolveWindowOptions, windowEnds, type Reso
 import type { ParamStore } from '../nn/params.js';
 import { observedPoints, pointStep, type ModelConfig } from './config.js';
 import type { Batch } from './encoder.js';
+import { stridePriorScratch, stridePriorSteps, strideReconSteps, type StridePriorScratch } from './model.js';
 
 /** One take the model learns from. */
 export interface TrainingTake {
@@ -47,11 +48,17 @@ export class BatchBuilder {
   private readonly nodes: (FrameNodes | null)[];
   private readonly options: ResolvedWindowOptions[];
   private readonly scratch: Float64Array;
+  private readonly prior: { steps: Float64Array; recon: Float64Array; scratch: StridePriorScratch } | null;
 
   /** A builder for batches of `size` windows of `takes`, normalised by `stats`, in the store's precision. */
   constructor(private readonly config: ModelConfig, private readonly stats: MotionStats, private readonly takes: readonly TrainingTake[], size: number, store: ParamStore) {
     const steps = config.observe + config.forecast, W = config.nodes * 6;
     this.batch = { size, state: store.alloc(steps * size * W), group: new Int32Array(size), phase: new Float64Array(size * observedPoints(config)) };
+    if (config.stridePrior) {
+      this.batch.prior = store.alloc(config.forecast * size * W);
+      this.batch.priorRecon = store.alloc(config.reconSteps * size * W);
+    }
+    this.prior = config.stridePrior ? { steps: new Float64Array(config.forecast * W), recon: new Float64Array(config.reconSteps * W), scratch: stridePriorScratch(config) } : null;
     this.windows = takes.map(() => null);
     this.nodes = takes.map(() => null);
     this.options = takes.map((t) => resolveWindowOptions(t.track.rate, { observe: config.observe, forecast: config.forecast }));
@@ -73,6 +80,19 @@ export class BatchBuilder {
       s.set(win.observed, 0);
       s.set(win.future, T * W);
       if (ref.mirrored) mirrorState(s, track.nodeMirror, s);
+      // The stride prior from the observed part as the model sees it (window frame, mirrored like the window).
+      if (this.prior) {
+        const steps = stridePriorSteps(c, this.stats, s, this.prior.steps, this.prior.scratch), prior = this.batch.prior!;
+        for (let f = 0; f < F; f++) {
+          const o = (f * B + b) * W, q = f * W;
+          for (let i = 0; i < W; i++) prior[o + i] = steps[q + i]!;
+        }
+        const recon = strideReconSteps(c, this.stats, s, this.prior.recon, this.prior.scratch), pr = this.batch.priorRecon!;
+        for (let q = 0; q < c.reconSteps; q++) {
+          const o = (q * B + b) * W, r = q * W;
+          for (let i = 0; i < W; i++) pr[o + i] = recon[r + i]!;
+        }
+      }
       normalise(this.stats, s, s);
       for (let t = 0; t < T + F; t++) {
         const o = (t * B + b) * W, q = t * W;

@@ -37,6 +37,15 @@ export interface ModelConfig {
    * change, so that an untrained decoder forecasts constant velocity and learns the correction.
    */
   kinematic: boolean;
+  /**
+   * Take the rollout's fixed step from the phase-aligned stride-mean baseline instead of the kinematic
+   * step: forecast step k adds the baseline's change of state prior(k + 1) − prior(k) (window frame,
+   * normalised; prior(0) the last observed state), so an untrained decoder forecasts the baseline and the
+   * factors and messages learn the residual. The baseline reads the window's observed part only. The
+   * teacher-forced transitions t → t + 1 add the baseline's one-step change from the steps up to t (so the
+   * learned change is a correction to the baseline in both terms); the kinematic switch is then unused.
+   */
+  stridePrior: boolean;
   /** Remove the pair messages entirely: each node's update sees only its own state (the no-coupling baseline). */
   noCoupling: boolean;
   /** Windows of one take that share a group share their static factors (posteriors averaged before sampling). */
@@ -47,7 +56,7 @@ export interface ModelConfig {
   labelWeight: number;
 }
 
-/** Returns the default configuration (hidden width 32, 4 static and 4 dynamic dimensions). */
+/** Returns the default configuration (hidden width 32, 4 static and 4 dynamic dimensions, the stride prior on). */
 export function defaultModelConfig(): ModelConfig {
   return {
     nodes: NODE_COUNT,
@@ -65,6 +74,7 @@ export function defaultModelConfig(): ModelConfig {
     beta: 1,
     rate: 30,
     kinematic: true,
+    stridePrior: true,
     noCoupling: false,
     matchPairing: true,
     restrictedLabeling: true,
@@ -74,7 +84,10 @@ export function defaultModelConfig(): ModelConfig {
 
 /** Returns the configuration with defaults filled and every field checked (throws RangeError when unusable). */
 export function resolveModelConfig(partial: Partial<ModelConfig> = {}): ModelConfig {
-  const c: ModelConfig = { ...defaultModelConfig(), ...partial };
+  // A configuration that names `kinematic` but not `stridePrior` was written before the stride prior existed
+  // (model files store every field): it keeps the kinematic step it was trained with.
+  const legacy = partial.kinematic !== undefined && partial.stridePrior === undefined ? { stridePrior: false } : {};
+  const c: ModelConfig = { ...defaultModelConfig(), ...legacy, ...partial };
   const ints: (keyof ModelConfig)[] = ['nodes', 'observe', 'forecast', 'hidden', 'pairHidden', 'staticDims', 'dynamicDims', 'dynamicStride', 'messageHidden', 'updateHidden', 'reconSteps'];
   for (const k of ints) {
     const v = c[k];
@@ -87,7 +100,7 @@ export function resolveModelConfig(partial: Partial<ModelConfig> = {}): ModelCon
   for (const k of ['rolloutWeight', 'beta', 'labelWeight'] as const)
     if (!(c[k] >= 0) || !Number.isFinite(c[k])) throw new RangeError(`model config ${k} must be a finite number ≥ 0`);
   if (!(c.rate > 0) || !Number.isFinite(c.rate)) throw new RangeError('model config rate must be a positive number of steps per second');
-  for (const k of ['kinematic', 'noCoupling', 'matchPairing', 'restrictedLabeling'] as const)
+  for (const k of ['kinematic', 'stridePrior', 'noCoupling', 'matchPairing', 'restrictedLabeling'] as const)
     if (typeof c[k] !== 'boolean') throw new RangeError(`model config ${k} must be true or false`);
   return c;
 }

@@ -1,7 +1,9 @@
 // The decoder: one Markov message-passing step, x(t) → x(t + 1), for every node of a stack of windows.
 //   message  m_ij = σ([s, d]_ij·wg + bg) · ss(x_i·Wa + x_j·Wb + [s, d]_ij·Wz + bz)
 //   update   Δx_j = ss(x_j·W1x + (Σ_i m_ij)·W1m + nodeBias_j + b1)·W2 + b2,   x_j(t + 1) = x_j(t) + Δx_j + k(x_j)
-// where k is the fixed kinematic step (positions advanced by velocity / rate, model.ts) when switched on.
+// where k is the fixed kinematic step (positions advanced by velocity / rate, model.ts) when switched on,
+// or, when the pass carries a fixed step (cache.step: the stride prior's change of state, model.ts), that
+// step instead; it does not depend on x, so it adds nothing to the backward pass.
 // The first message layer is split per node (x·Wa, x·Wb once per node) and per pair only its factor part
 // ([s, d]·Wz, computed once per dynamic point in decoderFactors); the layer after the sum is W1m, applied
 // once per node; ss is softsign (softsign.ts). With noCoupling there are no messages at all: the update sees only its own node.
@@ -71,8 +73,9 @@ export function decoderForward(model: CouplingModel, ws: Workspace, cache: Decod
   linearForward(h1, p.upW2.value, p.upB2.value, cache.out, rows, U, STATE_SIZE);
   const out = cache.out;
   for (let i = 0; i < rows * STATE_SIZE; i++) out[i] = out[i]! + x[i]!;
-  const kin = model.kinematic;
-  if (kin) {
+  const kin = model.kinematic, fixed = cache.step;
+  if (fixed) for (let i = 0; i < rows * STATE_SIZE; i++) out[i] = out[i]! + fixed[i]!;
+  else if (kin) {
     const { gain, bias } = kin;
     for (let r = 0; r < rows; r++) {
       const o = r * STATE_SIZE, n = (r % N) * 3;
@@ -123,7 +126,7 @@ export function decoderBackward(model: CouplingModel, ws: Workspace, cache: Deco
   if (dx) {
     for (let i = 0; i < rows * STATE_SIZE; i++) dx[i] = dx[i]! + dOut[i]!;
     const kin = model.kinematic;
-    if (kin)
+    if (kin && !cache.step)
       for (let r = 0; r < rows; r++) {
         const o = r * STATE_SIZE, n = (r % N) * 3;
         for (let a = 0; a < 3; a++) dx[o + 3 + a] = dx[o + 3 + a]! + kin.gain[n + a]! * dOut[o + a]!;

@@ -4,7 +4,9 @@
 //          per-feature noise);
 // rollout  Gaussian NLL of the forecast steps decoded from the last observed state with the decoder's own
 //          predictions fed back (backpropagated through the whole rollout), the dynamic factors rolled
-//          forward with the prior mean (learned noise per forecast step and feature);
+//          forward with the prior mean (learned noise per forecast step and feature); with the stride prior
+//          each rollout step adds the batch's fixed prior step (a constant: the gradient paths are unchanged),
+//          and each teacher-forced transition the baseline's one-step change from the steps up to it;
 // KL       (not with noCoupling, which runs no encoder) static factors against N(0, 1), the first dynamic point against N(0, 1) and every later one
 //          against the learned autoregressive prior given the previous sample; reported per dimension;
 // label    restricted labeling: squared distance of dynamic dimensions 0 and 1's posterior means (averaged
@@ -45,6 +47,10 @@ export function elboForward(model: CouplingModel, ws: Workspace, batch: Batch, r
   const t0 = T - 1 - R, tc = ws.teacher;
   decoderFactors(model, ws, B, pointOfStep(c, t0));
   tc.x = batch.state.subarray(t0 * step, (t0 + R) * step);
+  const prior = c.stridePrior ? batch.prior : null, priorRecon = c.stridePrior ? batch.priorRecon : null;
+  if (c.stridePrior && (!prior || prior.length < F * step || !priorRecon || priorRecon.length < R * step))
+    throw new RangeError('the stride prior is on but the batch carries no prior steps');
+  tc.step = priorRecon ? priorRecon.subarray(0, R * step) : null;
   for (let q = 0; q < R; q++) tc.points[q] = pointOfStep(c, t0 + q);
   decoderForward(model, ws, tc, B);
   const inv = 1 / B;
@@ -55,6 +61,7 @@ export function elboForward(model: CouplingModel, ws: Workspace, batch: Batch, r
   for (let f = 0; f < F; f++) {
     const rc = ws.rollout[f]!;
     rc.x = ws.roll.subarray(f * step, (f + 1) * step);
+    rc.step = prior ? prior.subarray(f * step, (f + 1) * step) : null;
     rc.points[0] = pointOfStep(c, T - 1 + f);
     decoderForward(model, ws, rc, B);
     ws.roll.set(rc.out.subarray(0, step) as never, (f + 1) * step);

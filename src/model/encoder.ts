@@ -26,6 +26,13 @@ export interface Batch {
   group: Int32Array;
   /** Gait phase (radians) at each observed dynamic point, size × K; NaN where unknown. */
   phase: Float64Array;
+  /**
+   * With the stride prior: the baseline's change of state per forecast step, forecast × size × N × 6
+   * (time-major like `state`, normalised units); absent otherwise.
+   */
+  prior?: Buf;
+  /** With the stride prior: its one-step changes of the teacher-forced transitions, reconSteps × size × N × 6. */
+  priorRecon?: Buf;
 }
 
 /** How the encoder draws its samples. */

@@ -1,17 +1,19 @@
 // Forecasting from one window: the encoder runs once on the observed part; each sample then draws its
 // own static factors and last dynamic factors from the posterior, rolls the dynamic factors forward with
-// the learned prior (with its noise), decodes the forecast steps from the last observed state, and adds
+// the learned prior (with its noise), decodes the forecast steps from the last observed state (with the
+// stride prior's fixed steps from the observed part when the model has it on), and adds
 // the learned per-step noise (times the model's spread calibration). Samples and their mean are mapped
 // back to world metres with the window's toWorld (so a mirrored window lands on its own take).
 import { denormalise, normalise } from '../motion/normalise.js';
 import { STATE_SIZE } from '../motion/reflect.js';
 import type { Window } from '../motion/window.js';
 import { Pcg32 } from '../nn/prng.js';
+import type { Buf } from '../nn/types.js';
 import { observedPoints, pointOfStep, totalPoints } from './config.js';
 import { decoderFactors, decoderForward } from './decoder.js';
 import { encoderForward, type Batch } from './encoder.js';
 import { bandCoverage } from './metrics.js';
-import type { CouplingModel } from './model.js';
+import { stridePriorScratch, stridePriorSteps, type CouplingModel, type StridePriorScratch } from './model.js';
 import { createWorkspace, type Workspace } from './workspace.js';
 
 /** Options of forecast. */
@@ -42,6 +44,8 @@ export interface Forecaster {
   encoderWs: Workspace;
   sampleWs: Workspace;
   batch: Batch;
+  /** With the stride prior: its steps tiled over the samples (forecast × samples × N × 6) and work arrays. */
+  prior: { tiled: Buf; steps: Float64Array; scratch: StridePriorScratch } | null;
 }
 
 /** Returns a forecaster (work buffers) for `samples` samples per forecast. */
@@ -53,7 +57,8 @@ export function createForecaster(model: CouplingModel, samples = 20): Forecaster
   };
   const sampleWs = createWorkspace(model, samples);
   for (const rc of sampleWs.rollout) rc.keep = false;
-  return { model, sampleCount: samples, encoderWs: createWorkspace(model, 1), sampleWs, batch };
+  const prior = c.stridePrior ? { tiled: model.store.alloc(c.forecast * samples * W), steps: new Float64Array(c.forecast * W), scratch: stridePriorScratch(c) } : null;
+  return { model, sampleCount: samples, encoderWs: createWorkspace(model, 1), sampleWs, batch, prior };
 }
 
 /**
@@ -103,12 +108,18 @@ function decodePaths(fc: Forecaster, win: Window, rng: Pcg32): Float64Array {
     decoderFactors(model, s, Sm, first);
   }
   const step = Sm * W;
+  // The stride prior from the observed part (window frame, mirrored like the window), one copy per sample.
+  if (fc.prior) {
+    const steps = stridePriorSteps(c, model.stats, win.observed, fc.prior.steps, fc.prior.scratch), tiled = fc.prior.tiled;
+    for (let f = 0; f < F; f++) for (let m = 0; m < Sm; m++) tiled.set(steps.subarray(f * W, (f + 1) * W) as never, (f * Sm + m) * W);
+  }
   for (let m = 0; m < Sm; m++) s.roll.set(obs.subarray((T - 1) * W, T * W) as never, m * W);
   const paths = new Float64Array(Sm * F * W);
   for (let f = 0; f < F; f++) {
     const rc = s.rollout[f]!;
     rc.x = s.roll.subarray(f * step, (f + 1) * step);
     rc.points[0] = pointOfStep(c, T - 1 + f);
+    rc.step = fc.prior ? fc.prior.tiled.subarray(f * step, (f + 1) * step) : null;
     decoderForward(model, s, rc, Sm);
     s.roll.set(rc.out.subarray(0, step) as never, (f + 1) * step);
     for (let m = 0; m < Sm; m++) paths.set(rc.out.subarray(m * W, (m + 1) * W) as never, (m * F + f) * W);

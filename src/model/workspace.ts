@@ -24,6 +24,8 @@ export interface DecoderCache {
   h1: Buf;
   /** Predicted next state, blocks × B × N × 6. */
   out: Buf;
+  /** Fixed change of state added per row instead of the kinematic step (the stride prior); null: kinematic step as configured. */
+  step: Buf | null;
   /** Keep the per-pair activations for a backward pass (false: forecasting only). */
   keep: boolean;
 }
@@ -72,7 +74,7 @@ function decoderCache(alloc: (n: number) => Buf, blocks: number, rows: number, p
   return {
     blocks, points: new Int32Array(blocks), x: alloc(0),
     a: alloc(rows * m), b: alloc(rows * m), u: alloc(pairRows * m), agg: alloc(rows * m),
-    h1: alloc(rows * U), out: alloc(rows * STATE_SIZE), keep: true,
+    h1: alloc(rows * U), out: alloc(rows * STATE_SIZE), step: null, keep: true,
   };
 }
 

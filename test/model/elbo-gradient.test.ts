@@ -1,6 +1,7 @@
 // Finite-difference check of the whole ELBO's gradient (encoder, factor heads, prior, decoder, noise
 // levels) on a tiny configuration in float64, for every parameter group, with match pairing and
-// restricted labeling on, and for the no-coupling variant. Central differences with h = 1e-5 on O(1)
+// restricted labeling on (with the default stride prior's fixed steps), for the no-coupling variant, and
+// with the kinematic step in place of the stride prior. Central differences with h = 1e-5 on O(1)
 // losses agree with a correct analytic gradient to about 1e-8 (truncation O(h²), rounding O(ε/h));
 // 1e-5 relative leaves room for the many terms summed.
 import { describe, expect, it } from 'vitest';
@@ -58,6 +59,13 @@ describe('ELBO gradient', () => {
 
   it('matches finite differences without match pairing and labeling', () => {
     expect(check({ matchPairing: false, restrictedLabeling: false }, [0, 0]).worst).toBeLessThan(1e-5);
+  });
+
+  it('matches finite differences with the kinematic step in place of the stride prior (which is the default)', () => {
+    const { worst, names } = check({ stridePrior: false }, [0, 0, 1]);
+    expect(worst).toBeLessThan(1e-5);
+    for (const n of ['enc.gru.wx', 'enc.dynamic.wb', 'prior.A', 'dec.msg.wz', 'dec.up.w1x', 'dec.up.w2', 'noise.rollout']) expect(names).toContain(n);
+    expect(check({ stridePrior: false, noCoupling: true }, [0, 1]).worst).toBeLessThan(1e-5);
   });
 
   it('matches finite differences with no coupling, which has no message weights and runs no encoder', () => {

@@ -30,5 +30,15 @@ export function randomBatch(c: ModelConfig, size: number, like: Buf, seed: numbe
   const K = observedPoints(c);
   const phase = new Float64Array(size * K);
   for (let i = 0; i < phase.length; i++) phase[i] = i % 3 === 2 ? NaN : 6 * rng.next();
-  return { size, state, group: Int32Array.from(groups ?? Array.from({ length: size }, (_, i) => i)), phase };
+  const batch: Batch = { size, state, group: Int32Array.from(groups ?? Array.from({ length: size }, (_, i) => i)), phase };
+  if (c.stridePrior) {
+    // Fixed prior steps of the stride prior: any values will do for a gradient check (they are constants).
+    const prior = like instanceof Float64Array ? new Float64Array(c.forecast * size * W) : new Float32Array(c.forecast * size * W);
+    for (let i = 0; i < prior.length; i++) prior[i] = 0.2 * rng.gauss();
+    batch.prior = prior;
+    const recon = like instanceof Float64Array ? new Float64Array(c.reconSteps * size * W) : new Float32Array(c.reconSteps * size * W);
+    for (let i = 0; i < recon.length; i++) recon[i] = 0.2 * rng.gauss();
+    batch.priorRecon = recon;
+  }
+  return batch;
 }
