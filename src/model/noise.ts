@@ -1,5 +1,5 @@
 // Data-driven starting values of the learned noise levels: the log of the mean squared error that the
-// freshly initialised decoder (about a constant-velocity forecast when the kinematic step is on) makes on
+// freshly initialised decoder (the stride-mean forecast with the stride prior, about constant velocity with the kinematic step) makes on
 // some training windows, per feature for the one-step reconstruction and per forecast step and feature
 // for the rollout. Starting the Gaussian likelihood at the scale of the errors it will see keeps its
 // gradient on the predicted means at full strength from the first step; a unit variance start leaves the
