@@ -1,4 +1,4 @@
-// PCG32 against the published reference output and an independent BigInt transcription of the reference
+// PCG32 against the published reference output and an independent BigInt re-implementation of the reference
 // C code; the Gaussian sampler by its moments.
 import { describe, expect, it } from 'vitest';
 import { Pcg32 } from '../../src/nn/prng.js';
@@ -30,7 +30,7 @@ describe('Pcg32', () => {
     expect(expected.map(() => r.nextU32())).toEqual(expected);
   });
 
-  it('matches a BigInt transcription of the reference code for other seeds, streams and long runs', () => {
+  it('matches a BigInt re-implementation of the reference code for other seeds, streams and long runs', () => {
     const cases: [number, number][] = [[0, 0], [1, 1], [0xdeadbeef, 7], [2 ** 40 + 12345, 2 ** 33 + 99], [2 ** 53 - 1, 2 ** 52 + 3]];
     for (const [seed, stream] of cases) {
       const mine = new Pcg32(seed, stream);

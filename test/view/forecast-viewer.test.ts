@@ -15,7 +15,7 @@ import { ForecastService } from '../../src/view/forecast.js';
 import { startViewServer, type ViewServer } from '../../src/view/server.js';
 import { haveChromium, launchChromium } from '../browser/chromium.js';
 import { buildViewerTemp } from './build-viewer.js';
-import type { PageGlobals, Probe } from './page.js';
+import { waitForViewer, type PageGlobals, type Probe } from './page.js';
 import { writeTinyModel } from './tiny-model.js';
 
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
@@ -44,7 +44,7 @@ describe.skipIf(!haveChromium())('forecast overlay in Chromium', () => {
     page.on('pageerror', (e) => pageErrors.push(e.message));
     mkdirSync(SHOTS, { recursive: true });
     await page.goto(server.url);
-    await page.waitForFunction(() => (globalThis as unknown as PageGlobals).__jointloomView?.ready === true || (globalThis as unknown as PageGlobals).__jointloomView?.error !== null, null, { timeout: 30_000 });
+    await waitForViewer(page);
   }, 90_000);
 
   afterAll(async () => {

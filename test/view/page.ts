@@ -49,3 +49,8 @@ export interface PageGlobals {
   Event: new (type: string, init?: { bubbles?: boolean }) => unknown;
   fetch(url: string): Promise<{ json(): Promise<unknown> }>;
 }
+
+/** Waits until the viewer page says it is ready or has failed (at most 30 s). */
+export async function waitForViewer(page: { waitForFunction(fn: () => boolean, arg: null, options: { timeout: number }): Promise<unknown> }): Promise<void> {
+  await page.waitForFunction(() => (globalThis as unknown as PageGlobals).__jointloomView?.ready === true || (globalThis as unknown as PageGlobals).__jointloomView?.error !== null, null, { timeout: 30_000 });
+}

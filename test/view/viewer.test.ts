@@ -12,7 +12,7 @@ import { buildViewData } from '../../src/view/data.js';
 import { startViewServer, type ViewServer } from '../../src/view/server.js';
 import { haveChromium, launchChromium } from '../browser/chromium.js';
 import { buildViewerTemp } from './build-viewer.js';
-import type { PageGlobals, Probe } from './page.js';
+import { waitForViewer, type PageGlobals, type Probe } from './page.js';
 
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
 const TAKE = join(ROOT, 'demo-takes', 'S01-1-walk.bvh');
@@ -39,7 +39,7 @@ describe.skipIf(!haveChromium())('viewer in Chromium', () => {
     page.on('pageerror', (e) => pageErrors.push(e.message));
     mkdirSync(SHOTS, { recursive: true });
     await page.goto(server.url);
-    await page.waitForFunction(() => (globalThis as unknown as PageGlobals).__jointloomView?.ready === true || (globalThis as unknown as PageGlobals).__jointloomView?.error !== null, null, { timeout: 30_000 });
+    await waitForViewer(page);
   }, 90_000);
 
   afterAll(async () => {
