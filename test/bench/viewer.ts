@@ -72,7 +72,7 @@ export async function runViewer(options: { input: BenchInput }): Promise<Section
     rows.push({ name: 'frame rate, skeleton', value: plain, unit: 'frames/s', note: 'frames drawn over 2 s of playback, 1280x900 page' });
     rows.push({ name: 'frame rate, skeleton + pair lines', value: withPairs, unit: 'frames/s', note: '136 pair lines (the heat layer stand-in)' });
     notes.push(`take: ${facts.joints}`);
-    notes.push('WebGL renders through SwiftShader (no GPU) on this machine; a GPU browser is far faster. Forecast overlay and factor heat are not built yet.');
+    notes.push('WebGL renders through SwiftShader (no GPU) on this machine; a GPU browser is far faster. The frame rate is measured without the forecast overlay (view --model); the factor heat is not built yet.');
     const code = await view.stop();
     if (code !== 0) notes.push(`jointloom view exited with ${code} on SIGINT`);
     return {
