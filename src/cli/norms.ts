@@ -31,8 +31,13 @@ function dateOption(v: string): string {
 
 /** Returns the BVH files named by the arguments: files as given, folders searched recursively; a folder with none is a usage error. */
 export function expandTakes(inputs: readonly string[]): string[] {
-  for (const p of inputs) if (statSync(p, { throwIfNoEntry: false })?.isDirectory() && findTakes([p]).length === 0) throw new UsageError(`${p}: the folder holds no .bvh file.`);
-  return findTakes(inputs);
+  const found = new Set<string>();
+  for (const p of inputs) {
+    const takes = findTakes([p]);
+    if (takes.length === 0 && statSync(p).isDirectory()) throw new UsageError(`${p}: the folder holds no .bvh file.`);
+    for (const t of takes) found.add(t);
+  }
+  return [...found].sort();
 }
 
 /** Returns the one-screen summary of a reference. */

@@ -1,22 +1,12 @@
 // Reading the ledger: score rows with their numbers, and the failures.
 import type { ScoreFlag } from '../score/record.js';
 import type { Ledger } from './open.js';
+import type { CohortTake } from '../report/cohort-data.js';
 
-/** One score as read back, with its take, subject, session and numbers. */
-export interface ScoreRow {
+/** One score as read back: the cohort report's take row plus its score id and the model file's hash. */
+export interface ScoreRow extends CohortTake {
   scoreId: number;
-  subject: string | null;
-  session: string | null;
-  date: string | null;
-  path: string;
-  sha256: string;
-  modelKey: string;
   modelSha256: string | null;
-  toolVersion: string;
-  scoredAt: string;
-  options: string;
-  metrics: Record<string, number | null>;
-  flags: ScoreFlag[];
 }
 
 /** One failed take as read back. */
