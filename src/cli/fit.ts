@@ -16,6 +16,7 @@ interface FitFlags extends ImportFlags {
   output: string;
   epochs: number;
   seed: number;
+  threads: number;
   twin: boolean;
   quiet?: boolean;
   json?: boolean;
@@ -38,10 +39,11 @@ export function register(program: Command): void {
     .requiredOption('-o, --output <file>', 'model file to write')
     .option('--epochs <n>', 'most epochs', numberOption(1, 10_000, true), 20)
     .option('--seed <n>', 'seed: same seed, same machine, same weights', numberOption(0, 2 ** 31 - 1, true), 1)
+    .option('--threads <n>', 'threads for the training steps (1 or 2; the weights do not depend on it)', numberOption(1, 2, true), 2)
     .option('--no-twin', 'skip the no-coupling twin (forecast then reports no no_coupling figures)')
     .option('--quiet', 'no progress bar')
     .option('--json', 'print the training summary as JSON');
-  withImportOptions(cmd).action((paths: string[], flags: FitFlags) => {
+  withImportOptions(cmd).action(async (paths: string[], flags: FitFlags) => {
     const files = findTakes(paths);
     if (files.length === 0) throw new InputError(`${paths.join(', ')}: no .bvh takes found.`);
     const opts = importOptionsFrom(flags);
@@ -49,8 +51,9 @@ export function register(program: Command): void {
     const takes: TrainingTake[] = files.map((f) => ({ track: trackFromImported(importTake(f, opts)), subject: subjectOf(f, root), phase: null }));
     const bar = progressBar('fit', Boolean(flags.quiet || flags.json));
     let phase = 'model';
-    const pair = fitPair(takes, {
+    const pair = await fitPair(takes, {
       epochs: flags.epochs,
+      threads: flags.threads,
       seed: flags.seed,
       twin: flags.twin,
       onPhase: (p) => { phase = p; },

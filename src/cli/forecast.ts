@@ -2,12 +2,11 @@
 // recorded future (model, no-coupling twin, every baseline), or a surprise timeline with --every.
 import type { Command } from 'commander';
 import { existsSync } from 'node:fs';
-import { dirname, join } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { UsageError } from '../errors/index.js';
 import { trackFromImported, type Track } from '../motion/track.js';
 import { createEvaluator, flagSurprises, forecastAt, type ForecastPoint, type MethodName } from '../model/evaluate.js';
 import { HORIZONS_S } from '../model/metrics.js';
+import { defaultModelPath } from '../model/default-model.js';
 import { loadModel } from '../model/modelfile.js';
 import { twinOf } from '../model/pair-fit.js';
 import { importTake } from '../skeleton/import.js';
@@ -15,10 +14,7 @@ import { writeFileAtomic } from '../util/atomic.js';
 import { emit, newCommand, numberOption } from './program.js';
 import { importOptionsFrom, withImportOptions, type ImportFlags } from './import-options.js';
 
-/** Returns the path of the model shipped with the package (src/model/default-model.json). */
-export function defaultModelPath(): string {
-  return join(dirname(fileURLToPath(import.meta.url)), '..', '..', 'src', 'model', 'default-model.json');
-}
+export { defaultModelPath };
 
 interface ForecastFlags extends ImportFlags {
   model?: string;

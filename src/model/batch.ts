@@ -7,7 +7,7 @@ import { normalise, type MotionStats } from '../motion/normalise.js';
 import type { Track } from '../motion/track.js';
 import { allocateWindow, fillWindow, resolveWindowOptions, windowEnds, type ResolvedWindowOptions, type Window } from '../motion/window.js';
 import type { ParamStore } from '../nn/params.js';
-import { observedPoints, pointStep, type ModelConfig } from './config.js';
+import { modelWindowOptions, observedPoints, pointStep, type ModelConfig } from './config.js';
 import type { Batch } from './encoder.js';
 import { stridePriorScratch, stridePriorSteps, strideReconSteps, type StridePriorScratch } from './model.js';
 
@@ -48,7 +48,7 @@ export class BatchBuilder {
   private readonly nodes: (FrameNodes | null)[];
   private readonly options: ResolvedWindowOptions[];
   private readonly scratch: Float64Array;
-  private readonly prior: { steps: Float64Array; recon: Float64Array; scratch: StridePriorScratch } | null;
+  private readonly prior: { steps: Float64Array; recon: Float64Array; history: Float64Array; scratch: StridePriorScratch } | null;
 
   /** A builder for batches of `size` windows of `takes`, normalised by `stats`, in the store's precision. */
   constructor(private readonly config: ModelConfig, private readonly stats: MotionStats, private readonly takes: readonly TrainingTake[], size: number, store: ParamStore) {
@@ -58,10 +58,12 @@ export class BatchBuilder {
       this.batch.prior = store.alloc(config.forecast * size * W);
       this.batch.priorRecon = store.alloc(config.reconSteps * size * W);
     }
-    this.prior = config.stridePrior ? { steps: new Float64Array(config.forecast * W), recon: new Float64Array(config.reconSteps * W), scratch: stridePriorScratch(config) } : null;
+    this.prior = config.stridePrior
+      ? { steps: new Float64Array(config.forecast * W), recon: new Float64Array(config.reconSteps * W), history: new Float64Array(config.priorHistory * W), scratch: stridePriorScratch(config) }
+      : null;
     this.windows = takes.map(() => null);
     this.nodes = takes.map(() => null);
-    this.options = takes.map((t) => resolveWindowOptions(t.track.rate, { observe: config.observe, forecast: config.forecast }));
+    this.options = takes.map((t) => resolveWindowOptions(t.track.rate, modelWindowOptions(config)));
     this.scratch = new Float64Array(steps * W);
   }
 
@@ -80,14 +82,17 @@ export class BatchBuilder {
       s.set(win.observed, 0);
       s.set(win.future, T * W);
       if (ref.mirrored) mirrorState(s, track.nodeMirror, s);
-      // The stride prior from the observed part as the model sees it (window frame, mirrored like the window).
+      // The stride prior from the causal history as the model sees it (window frame, mirrored like the window).
       if (this.prior) {
-        const steps = stridePriorSteps(c, this.stats, s, this.prior.steps, this.prior.scratch), prior = this.batch.prior!;
+        const H = win.historySteps, hist = this.prior.history.subarray(0, H * W);
+        if (ref.mirrored) mirrorState(win.history, track.nodeMirror, hist);
+        else hist.set(win.history);
+        const steps = stridePriorSteps(c, this.stats, hist, H, this.prior.steps, this.prior.scratch), prior = this.batch.prior!;
         for (let f = 0; f < F; f++) {
           const o = (f * B + b) * W, q = f * W;
           for (let i = 0; i < W; i++) prior[o + i] = steps[q + i]!;
         }
-        const recon = strideReconSteps(c, this.stats, s, this.prior.recon, this.prior.scratch), pr = this.batch.priorRecon!;
+        const recon = strideReconSteps(c, this.stats, hist, H, this.prior.recon, this.prior.scratch), pr = this.batch.priorRecon!;
         for (let q = 0; q < c.reconSteps; q++) {
           const o = (q * B + b) * W, r = q * W;
           for (let i = 0; i < W; i++) pr[o + i] = recon[r + i]!;

@@ -46,12 +46,24 @@ export interface ModelConfig {
    * learned change is a correction to the baseline in both terms); the kinematic switch is then unused.
    */
   stridePrior: boolean;
+  /**
+   * Steps of causal history before and including the last observed step the stride prior reads (at least
+   * `observe`; 150 = 5 s at 30 Hz gives it three strides and the stride period's 4-s search). The encoder
+   * still reads only the observed steps.
+   */
+  priorHistory: number;
   /** Remove the pair messages entirely: each node's update sees only its own state (the no-coupling baseline). */
   noCoupling: boolean;
   /** Windows of one take that share a group share their static factors (posteriors averaged before sampling). */
   matchPairing: boolean;
   /** Tie the first two dynamic dimensions to sin and cos of the gait phase (a supervised term on their means). */
   restrictedLabeling: boolean;
+  /**
+   * Least noise variance of the reconstruction and rollout likelihoods, normalised units² (default 1e-3,
+   * an SD of about 3 % of a feature's spread). Without a floor, features the stride prior already forecasts
+   * almost exactly get weights of 10⁴-10⁶ and the shared decoder trades the large swing errors for them.
+   */
+  noiseFloor: number;
   /** Weight of the restricted-labeling term (per labelled dimension and point, summed over pairs). */
   labelWeight: number;
 }
@@ -75,10 +87,12 @@ export function defaultModelConfig(): ModelConfig {
     rate: 30,
     kinematic: true,
     stridePrior: true,
+    priorHistory: 150,
     noCoupling: false,
     matchPairing: true,
     restrictedLabeling: true,
     labelWeight: 1,
+    noiseFloor: 1e-3,
   };
 }
 
@@ -86,23 +100,31 @@ export function defaultModelConfig(): ModelConfig {
 export function resolveModelConfig(partial: Partial<ModelConfig> = {}): ModelConfig {
   // A configuration that names `kinematic` but not `stridePrior` was written before the stride prior existed
   // (model files store every field): it keeps the kinematic step it was trained with.
-  const legacy = partial.kinematic !== undefined && partial.stridePrior === undefined ? { stridePrior: false } : {};
+  const legacy: Partial<ModelConfig> = partial.kinematic !== undefined && partial.stridePrior === undefined ? { stridePrior: false } : {};
+  // One that names the stride prior but no history was written when the prior read the observed part only.
+  if (partial.stridePrior !== undefined && partial.priorHistory === undefined) legacy.priorHistory = partial.observe ?? defaultModelConfig().observe;
   const c: ModelConfig = { ...defaultModelConfig(), ...legacy, ...partial };
-  const ints: (keyof ModelConfig)[] = ['nodes', 'observe', 'forecast', 'hidden', 'pairHidden', 'staticDims', 'dynamicDims', 'dynamicStride', 'messageHidden', 'updateHidden', 'reconSteps'];
+  const ints: (keyof ModelConfig)[] = ['nodes', 'observe', 'forecast', 'hidden', 'pairHidden', 'staticDims', 'dynamicDims', 'dynamicStride', 'messageHidden', 'updateHidden', 'reconSteps', 'priorHistory'];
   for (const k of ints) {
     const v = c[k];
     if (typeof v !== 'number' || !Number.isInteger(v) || v < 1) throw new RangeError(`model config ${k} must be a positive whole number (got ${String(v)})`);
   }
   if (c.nodes < 2) throw new RangeError('model config nodes must be at least 2');
   if (c.observe % c.dynamicStride !== 0) throw new RangeError(`observe (${c.observe}) must be a multiple of dynamicStride (${c.dynamicStride})`);
+  if (c.priorHistory < c.observe) throw new RangeError(`priorHistory (${c.priorHistory}) must be at least observe (${c.observe})`);
   if (c.reconSteps > c.observe - 1) throw new RangeError(`reconSteps (${c.reconSteps}) must be at most observe − 1 (${c.observe - 1})`);
   if (c.restrictedLabeling && c.dynamicDims < 2) throw new RangeError('restricted labeling needs at least 2 dynamic dimensions');
-  for (const k of ['rolloutWeight', 'beta', 'labelWeight'] as const)
+  for (const k of ['rolloutWeight', 'beta', 'labelWeight', 'noiseFloor'] as const)
     if (!(c[k] >= 0) || !Number.isFinite(c[k])) throw new RangeError(`model config ${k} must be a finite number ≥ 0`);
   if (!(c.rate > 0) || !Number.isFinite(c.rate)) throw new RangeError('model config rate must be a positive number of steps per second');
   for (const k of ['kinematic', 'stridePrior', 'noCoupling', 'matchPairing', 'restrictedLabeling'] as const)
     if (typeof c[k] !== 'boolean') throw new RangeError(`model config ${k} must be true or false`);
   return c;
+}
+
+/** Returns the window options a model's windows are made with (observed, forecast and history steps). */
+export function modelWindowOptions(c: ModelConfig): { observe: number; forecast: number; history: number } {
+  return { observe: c.observe, forecast: c.forecast, history: c.stridePrior ? c.priorHistory : c.observe };
 }
 
 /** Returns the number of dynamic factor points over the observed part. */

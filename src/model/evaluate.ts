@@ -7,6 +7,7 @@ import { BASELINE_NAMES, baselineForecast, type BaselineName } from './baselines
 import { createForecaster, forecast, type ForecastResult, type Forecaster } from './forecast.js';
 import { HORIZONS_S, bandCoverage, horizonStep, meanJointError } from './metrics.js';
 import type { CouplingModel } from './model.js';
+import { modelWindowOptions } from './config.js';
 
 export type MethodName = 'model' | 'no_coupling' | BaselineName;
 
@@ -59,7 +60,7 @@ export function forecastRange(track: Track, models: ForecastModels): { first: nu
 /** Returns the forecast from track step `end` (its last observed step), scored where the future is recorded. */
 export function forecastAt(track: Track, end: number, ev: Evaluator, seed = 1): ForecastPoint {
   const c = ev.models.model.config;
-  const win = makeWindow(track, end, { observe: c.observe, forecast: c.forecast });
+  const win = makeWindow(track, end, modelWindowOptions(c));
   const result = forecast(ev.models.model, win, { seed, samples: ev.samples }, ev.model);
   const F = c.forecast, N = track.nodeCount, W = N * 3;
   const point: ForecastPoint = { endStep: end, time_s: end / track.rate, result, truth: null, mpjpe_mm: null, coverage_90: null, surprise: null };

@@ -22,6 +22,11 @@ export interface ForecastOptions {
   samples?: number;
   /** Seed of the sampling (default 1): same seed, same samples. */
   seed?: number;
+  /**
+   * Static factor posteriors to use instead of the window's own (pairs × staticDims means and log
+   * variances, e.g. another take's): the informativeness check gives each take another's static factors.
+   */
+  staticFactors?: { mean: ArrayLike<number>; logVar: ArrayLike<number> };
 }
 
 /** A forecast of the model's forecast steps after a window's last observed step. */
@@ -65,7 +70,7 @@ export function createForecaster(model: CouplingModel, samples = 20): Forecaster
  * Returns the deterministic decoded paths of every sample (samples × steps × N × 6, normalised, before
  * the output noise) of the forecaster's sample workspace after encoding `win`; rng draws the factors.
  */
-function decodePaths(fc: Forecaster, win: Window, rng: Pcg32): Float64Array {
+function decodePaths(fc: Forecaster, win: Window, rng: Pcg32, staticFactors?: ForecastOptions['staticFactors']): Float64Array {
   const { model, encoderWs: e, sampleWs: s, batch } = fc;
   const c = model.config, N = c.nodes, W = N * STATE_SIZE, T = c.observe, F = c.forecast, S = c.staticDims, D = c.dynamicDims;
   const K = observedPoints(c), Kt = totalPoints(c), P = e.pairs.count, Sm = fc.sampleCount, Z = S + D;
@@ -78,6 +83,10 @@ function decodePaths(fc: Forecaster, win: Window, rng: Pcg32): Float64Array {
   // Without coupling the decoder reads no factors, so the encoder is not run.
   if (!c.noCoupling) {
     encoderForward(model, e, batch, rng, { sample: false, priorNoise: false });
+    if (staticFactors) {
+      if (staticFactors.mean.length !== P * S || staticFactors.logVar.length !== P * S) throw new RangeError(`static factors need ${P} pairs × ${S} dimensions`);
+      for (let i = 0; i < P * S; i++) { e.muSg[i] = staticFactors.mean[i]!; e.lvSg[i] = staticFactors.logVar[i]!; }
+    }
     // Per sample: static sample, last posterior dynamic sample, then the prior rolled forward with noise.
     const A = model.params.priorA.value, cc = model.params.priorC.value, lv = model.params.priorLv.value;
     const dPrev = new Float64Array(D), dCur = new Float64Array(D);
@@ -108,9 +117,9 @@ function decodePaths(fc: Forecaster, win: Window, rng: Pcg32): Float64Array {
     decoderFactors(model, s, Sm, first);
   }
   const step = Sm * W;
-  // The stride prior from the observed part (window frame, mirrored like the window), one copy per sample.
+  // The stride prior from the window's causal history (window frame, mirrored like the window), one copy per sample.
   if (fc.prior) {
-    const steps = stridePriorSteps(c, model.stats, win.observed, fc.prior.steps, fc.prior.scratch), tiled = fc.prior.tiled;
+    const steps = stridePriorSteps(c, model.stats, win.history, win.historySteps, fc.prior.steps, fc.prior.scratch), tiled = fc.prior.tiled;
     for (let f = 0; f < F; f++) for (let m = 0; m < Sm; m++) tiled.set(steps.subarray(f * W, (f + 1) * W) as never, (f * Sm + m) * W);
   }
   for (let m = 0; m < Sm; m++) s.roll.set(obs.subarray((T - 1) * W, T * W) as never, m * W);
@@ -145,7 +154,7 @@ export function forecast(model: CouplingModel, win: Window, options: ForecastOpt
   if (fc.model !== model) throw new RangeError('the forecaster belongs to another model');
   const rng = new Pcg32(options.seed ?? 1, 0x666f7265);
   const c = model.config, N = c.nodes, W = N * STATE_SIZE, F = c.forecast, Sm = fc.sampleCount;
-  const paths = decodePaths(fc, win, rng);
+  const paths = decodePaths(fc, win, rng, options.staticFactors);
   const lv = model.params.lvRollout.value, k = model.spreadScale;
   const meanNorm = new Float64Array(F * W), one = new Float64Array(F * W);
   const samples = new Float64Array(Sm * F * N * 3);

@@ -126,7 +126,7 @@ export interface StridePriorScratch {
 export function stridePriorScratch(c: ModelConfig): StridePriorScratch {
   const N = c.nodes;
   return {
-    positions: new Float64Array(c.observe * N * 3), forecast: new Float64Array(c.forecast * N * 3),
+    positions: new Float64Array(Math.max(c.observe, c.priorHistory) * N * 3), forecast: new Float64Array(c.forecast * N * 3),
     state: new Float64Array(c.forecast * N * STATE_SIZE), last: new Float64Array(N * STATE_SIZE),
   };
 }
@@ -134,29 +134,28 @@ export function stridePriorScratch(c: ModelConfig): StridePriorScratch {
 /**
  * Returns `out` (forecast × N × 6, normalised units) holding the stride prior's change of state per
  * forecast step: prior(k + 1) − prior(k), where prior(1 … F) is the phase-aligned stride-mean forecast
- * (baselines.ts, up to three strides) of the window's observed positions, velocities backward differences
+ * (baselines.ts, up to three strides) of the window's history positions, velocities backward differences
  * at the model rate (the first from the last observed position), and prior(0) the last observed state.
- * `observed` is the window's observed state (observe × N × 6, window frame, not normalised, mirrored when
- * the window is): the baseline is computed in the window frame, which gives the same forecast as in the
+ * `history` is the window's history state (historySteps × N × 6 ending at the last observed step, window
+ * frame, not normalised, mirrored when the window is): the baseline is computed in the window frame, which gives the same forecast as in the
  * world turned into the frame (it only adds pelvis travel and averages positions, and its stride period is a
  * normalised autocorrelation), and the same for a window and its mirror image. It reads nothing after the
  * last observed step; with no stride period found it falls back to constant velocity.
  */
-export function stridePriorSteps(c: ModelConfig, stats: MotionStats, observed: ArrayLike<number>, out: Float64Array, scratch = stridePriorScratch(c)): Float64Array {
-  const N = c.nodes, T = c.observe, F = c.forecast, W = N * STATE_SIZE;
-  const { positions: pos, forecast: fut, state, last } = scratch;
-  for (let t = 0; t < T; t++)
-    for (let n = 0; n < N; n++) for (let a = 0; a < 3; a++) pos[(t * N + n) * 3 + a] = observed[t * W + n * STATE_SIZE + a]!;
-  strideForecast(pos, N, c.rate, T - 1, F, 3, fut);
+export function stridePriorSteps(c: ModelConfig, stats: MotionStats, history: ArrayLike<number>, historySteps: number, out: Float64Array, scratch = stridePriorScratch(c)): Float64Array {
+  const N = c.nodes, H = historySteps, F = c.forecast, W = N * STATE_SIZE;
+  const { forecast: fut, state, last } = scratch;
+  const pos = historyPositions(c, history, H, scratch);
+  strideForecast(pos, N, c.rate, H - 1, F, 3, fut);
   for (let k = 0; k < F; k++)
     for (let n = 0; n < N; n++)
       for (let a = 0; a < 3; a++) {
-        const p = fut[(k * N + n) * 3 + a]!, prev = k === 0 ? pos[((T - 1) * N + n) * 3 + a]! : fut[((k - 1) * N + n) * 3 + a]!;
+        const p = fut[(k * N + n) * 3 + a]!, prev = k === 0 ? pos[((H - 1) * N + n) * 3 + a]! : fut[((k - 1) * N + n) * 3 + a]!;
         const o = k * W + n * STATE_SIZE + a;
         state[o] = p;
         state[o + 3] = (p - prev) * c.rate;
       }
-  for (let i = 0; i < W; i++) last[i] = observed[(T - 1) * W + i]!;
+  for (let i = 0; i < W; i++) last[i] = history[(H - 1) * W + i]!;
   normalise(stats, state, state);
   normalise(stats, last, last);
   for (let k = F - 1; k >= 0; k--)
@@ -164,20 +163,28 @@ export function stridePriorSteps(c: ModelConfig, stats: MotionStats, observed: A
   return out;
 }
 
+/** Copies the positions of `historySteps` steps of window state into the scratch (checked against the model). */
+function historyPositions(c: ModelConfig, history: ArrayLike<number>, H: number, scratch: StridePriorScratch): Float64Array {
+  const N = c.nodes, W = N * STATE_SIZE, pos = scratch.positions;
+  if (!Number.isInteger(H) || H < c.observe || H * N * 3 > pos.length || history.length < H * W)
+    throw new RangeError(`the stride prior needs ${c.observe}..${pos.length / (N * 3)} steps of history (got ${H})`);
+  for (let t = 0; t < H; t++)
+    for (let n = 0; n < N; n++) for (let a = 0; a < 3; a++) pos[(t * N + n) * 3 + a] = history[t * W + n * STATE_SIZE + a]!;
+  return pos;
+}
+
 /**
- * Returns `out` (reconSteps × N × 6, normalised units) holding the stride prior's one-step changes for the
- * teacher-forced transitions t → t + 1 (t = observe − 1 − reconSteps … observe − 2): the stride-mean
- * forecast one step ahead from the observed positions up to t only, minus the state at t, so that the
- * learned change means the same (a correction to the baseline) in the teacher-forced and the rollout terms.
+ * Returns `out` (reconSteps × N × 6, normalised) holding, for each of the last reconSteps observed
+ * transitions t → t + 1, the stride prior's one-step change from the history up to t (state at t + 1 from
+ * the baseline minus the state at t), the fixed step of the teacher-forced term.
  */
-export function strideReconSteps(c: ModelConfig, stats: MotionStats, observed: ArrayLike<number>, out: Float64Array, scratch = stridePriorScratch(c)): Float64Array {
-  const N = c.nodes, T = c.observe, R = c.reconSteps, W = N * STATE_SIZE;
-  const { positions: pos, forecast: one, state, last } = scratch;
-  for (let t = 0; t < T; t++)
-    for (let n = 0; n < N; n++) for (let a = 0; a < 3; a++) pos[(t * N + n) * 3 + a] = observed[t * W + n * STATE_SIZE + a]!;
+export function strideReconSteps(c: ModelConfig, stats: MotionStats, history: ArrayLike<number>, historySteps: number, out: Float64Array, scratch = stridePriorScratch(c)): Float64Array {
+  const N = c.nodes, H = historySteps, R = c.reconSteps, W = N * STATE_SIZE;
+  const { forecast: one, state, last } = scratch;
+  const pos = historyPositions(c, history, H, scratch);
   const st = state.subarray(0, W);
   for (let q = 0; q < R; q++) {
-    const t = T - 1 - R + q;
+    const t = H - 1 - R + q;
     strideForecast(pos, N, c.rate, t, 1, 3, one);
     for (let n = 0; n < N; n++)
       for (let a = 0; a < 3; a++) {
@@ -185,7 +192,7 @@ export function strideReconSteps(c: ModelConfig, stats: MotionStats, observed: A
         st[o] = p;
         st[o + 3] = (p - pos[(t * N + n) * 3 + a]!) * c.rate;
       }
-    for (let i = 0; i < W; i++) last[i] = observed[t * W + i]!;
+    for (let i = 0; i < W; i++) last[i] = history[t * W + i]!;
     normalise(stats, st, st);
     normalise(stats, last, last);
     for (let i = 0; i < W; i++) out[q * W + i] = st[i]! - last[i]!;

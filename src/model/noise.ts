@@ -11,8 +11,12 @@ import { elboForward } from './elbo.js';
 import type { CouplingModel } from './model.js';
 import type { Workspace } from './workspace.js';
 
-/** Smallest mean squared error used (normalised units²), so a perfectly predicted feature gets a finite level. */
-const FLOOR = 1e-6;
+/** Clamps the noise log-variances at the configuration's floor (after every optimiser step); returns the model. */
+export function clampNoise(model: CouplingModel): CouplingModel {
+  const lo = Math.log(model.config.noiseFloor);
+  for (const p of [model.params.lvRecon.value, model.params.lvRollout.value]) for (let i = 0; i < p.length; i++) if (p[i]! < lo) p[i] = lo;
+  return model;
+}
 
 /** Sets the model's noise log-variances from the errors of the current decoder on the batches; returns the model. */
 export function initNoiseFromData(model: CouplingModel, ws: Workspace, batches: Iterable<Batch>): CouplingModel {
@@ -43,7 +47,7 @@ export function initNoiseFromData(model: CouplingModel, ws: Workspace, batches: 
   }
   if (nRecon === 0) return model;
   const lr = model.params.lvRecon.value, lo = model.params.lvRollout.value;
-  for (let i = 0; i < W; i++) lr[i] = Math.log(recon[i]! / nRecon + FLOOR);
-  for (let i = 0; i < F * W; i++) lo[i] = Math.log(roll[i]! / nRoll + FLOOR);
-  return model;
+  for (let i = 0; i < W; i++) lr[i] = Math.log(recon[i]! / nRecon + 1e-12);
+  for (let i = 0; i < F * W; i++) lo[i] = Math.log(roll[i]! / nRoll + 1e-12);
+  return clampNoise(model);
 }

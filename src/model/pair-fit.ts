@@ -6,6 +6,8 @@ import type { TrainingTake } from './batch.js';
 import { calibrateSpread } from './forecast.js';
 import type { CouplingModel } from './model.js';
 import { modelFromJson, modelToJson, saveModel, type LoadedModel } from './modelfile.js';
+import { modelWindowOptions } from './config.js';
+import { trainParallel } from './parallel.js';
 import { train, type TrainOptions, type TrainProgress, type TrainingSummary } from './train.js';
 
 export interface FittedPair {
@@ -23,22 +25,32 @@ function heldOutWindows(takes: readonly TrainingTake[], subjects: readonly strin
   const out = [];
   for (const t of takes) {
     if (!subjects.includes(t.subject)) continue;
-    for (const w of windowsOf(t.track as Track, stride, { observe: c.observe, forecast: c.forecast })) if (w.futureSteps === c.forecast) out.push(w);
+    for (const w of windowsOf(t.track as Track, stride, modelWindowOptions(c))) if (w.futureSteps === c.forecast) out.push(w);
   }
   return out;
 }
 
+/** Options of fitPair: training options, the twin switch, worker threads and progress hooks. */
+export type FitPairOptions = TrainOptions & {
+  twin?: boolean;
+  /**
+   * Run the shards of each step on this many threads (default 1: all on the calling thread). The weights
+   * are the same for any thread count (train.ts reduces shard gradients in a fixed order).
+   */
+  threads?: number;
+  onPhase?: (phase: 'model' | 'twin' | 'calibrate') => void;
+  onProgress?: (p: TrainProgress) => void;
+};
+
 /** Returns the model and (unless `twin` is false) its retrained no-coupling twin, spreads calibrated. */
-export function fitPair(
-  takes: readonly TrainingTake[],
-  options: TrainOptions & { twin?: boolean; onPhase?: (phase: 'model' | 'twin' | 'calibrate') => void; onProgress?: (p: TrainProgress) => void },
-): FittedPair {
+export async function fitPair(takes: readonly TrainingTake[], options: FitPairOptions): Promise<FittedPair> {
+  const run = (o: TrainOptions) => ((options.threads ?? 1) > 1 ? trainParallel(takes, { ...o, shards: o.shards ?? options.threads }) : Promise.resolve(train(takes, o)));
   options.onPhase?.('model');
-  const { model, summary } = train(takes, options);
+  const { model, summary } = await run(options);
   let twin: CouplingModel | null = null, twinSummary: TrainingSummary | null = null;
   if (options.twin !== false) {
     options.onPhase?.('twin');
-    const r = train(takes, { ...options, config: { ...options.config, noCoupling: true }, stats: model.stats });
+    const r = await run({ ...options, config: { ...options.config, noCoupling: true }, stats: model.stats });
     twin = r.model;
     twinSummary = r.summary;
   }
@@ -49,8 +61,8 @@ export function fitPair(
 }
 
 /** Writes the pair to one model file (the twin under extras.no_coupling) and returns the path. */
-export function savePair(path: string, p: FittedPair): string {
-  return saveModel(path, p.model, p.summary, p.twin ? { no_coupling: modelToJson(p.twin, p.twinSummary) } : {});
+export function savePair(path: string, p: FittedPair, extras: Record<string, unknown> = {}): string {
+  return saveModel(path, p.model, p.summary, { ...extras, ...(p.twin ? { no_coupling: modelToJson(p.twin, p.twinSummary) } : {}) });
 }
 
 /** Returns the twin stored beside a loaded model, or null when the file has none. */

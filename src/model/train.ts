@@ -18,7 +18,8 @@ import { BatchBuilder, windowRefs, type TrainingTake, type WindowRef } from './b
 import { resolveModelConfig, type ModelConfig } from './config.js';
 import { elboBackward, elboForward, type LossReport } from './elbo.js';
 import { createModel, type CouplingModel } from './model.js';
-import { initNoiseFromData } from './noise.js';
+import { clampNoise, initNoiseFromData } from './noise.js';
+import { forecastProbe, probeError } from './validate.js';
 import { createWorkspace, type Workspace } from './workspace.js';
 
 /** What a progress callback is told after every step and every validation. */
@@ -54,6 +55,11 @@ export interface TrainOptions {
   patience?: number;
   /** Left/right mirror augmentation (default true). */
   mirror?: boolean;
+  /**
+   * What early stopping watches on the held-out subjects: 'forecast' (default), the mean forecast's
+   * per-joint error (validate.ts; the untrained start's is recorded first for reference), or 'loss', the ELBO.
+   */
+  stopOn?: 'forecast' | 'loss';
   /** Statistics to use instead of computing them from the training takes. */
   stats?: MotionStats;
   onProgress?: (p: TrainProgress) => void;
@@ -71,6 +77,9 @@ export interface TrainingSummary {
   validWindows: number;
   trainLoss: number[];
   validLoss: number[];
+  /** What early stopping watched, and the held-out forecast error (mm) before training and after each epoch (empty under 'loss'). */
+  stopOn: 'forecast' | 'loss';
+  validForecastMm: number[];
   /** Held-out loss terms at the best epoch (KL per dimension included). */
   best: LossReport | null;
   msPerStep: number;
@@ -264,8 +273,14 @@ export function* trainingLoop(ctx: TrainingContext, options: TrainOptions = {}):
     seed, epochs: 0, steps: 0, bestEpoch: -1, trainSubjects: [...new Set(trainTakes.map((t) => t.subject))].sort(),
     validSubjects: [...new Set(validTakes.map((t) => t.subject))].sort(),
     trainWindows: trainRefs.length, validWindows: validRefs.length, trainLoss: [], validLoss: [], best: null, msPerStep: NaN,
+    stopOn: options.stopOn ?? 'forecast', validForecastMm: [],
   };
   let best = Infinity, bestWeights: Buf | null = null, stale = 0, ms = 0, validLoss = NaN;
+  const probe = summary.stopOn === 'forecast' && validTakes.length ? forecastProbe(model, validTakes.map((t) => t.track)) : null;
+  if (summary.stopOn === 'forecast' && !probe) summary.stopOn = 'loss';
+  // The untrained start's figure is recorded for reference; only trained weights are candidates, so the
+  // factors a model file carries are always learned ones.
+  if (probe) summary.validForecastMm.push(probeError(model, probe));
   for (let epoch = 0; epoch < epochs; epoch++) {
     let batches = makeBatches(trainRefs, B, config.matchPairing, options.mirror ?? true, order);
     if (options.maxStepsPerEpoch !== undefined) batches = batches.slice(0, options.maxStepsPerEpoch);
@@ -276,6 +291,7 @@ export function* trainingLoop(ctx: TrainingContext, options: TrainOptions = {}):
       sum += yield { refs: b.refs, groups: b.groups, noiseSeed: noiseBase + summary.steps };
       clipGlobalNorm(model.store.gradView(), clip);
       adam.step(model.store.valueView(), model.store.gradView());
+      clampNoise(model);
       ms += performance.now() - t;
       summary.steps++;
       options.onProgress?.({ epoch, epochs, step: i + 1, stepsPerEpoch: batches.length, trainLoss: sum / (i + 1), validLoss, phase: 'train' });
@@ -286,8 +302,10 @@ export function* trainingLoop(ctx: TrainingContext, options: TrainOptions = {}):
     validLoss = report ? report.total : summary.trainLoss[epoch]!;
     summary.validLoss.push(validLoss);
     options.onProgress?.({ epoch, epochs, step: batches.length, stepsPerEpoch: batches.length, trainLoss: summary.trainLoss[epoch]!, validLoss, phase: 'validate' });
-    if (validLoss < best) {
-      best = validLoss;
+    const watched = probe ? probeError(model, probe) : validLoss;
+    if (probe) summary.validForecastMm.push(watched);
+    if (watched < best) {
+      best = watched;
       summary.bestEpoch = epoch;
       summary.best = report;
       bestWeights = Float32Array.from(model.store.valueView());

@@ -16,11 +16,14 @@ export function mirrorWindow(win: Window, nodeMirror: Int32Array): Window {
   const futureStore = new Float64Array(win.futureStore.length);
   const future = futureStore.subarray(0, win.future.length);
   mirrorState(win.future, nodeMirror, future);
+  const historyStore = new Float64Array(win.historyStore.length);
+  const history = historyStore.subarray(0, win.history.length);
+  mirrorState(win.history, nodeMirror, history);
   const frame = { ...win.frame, origin: Float64Array.from(win.frame.origin), mirror: win.frame.mirror ? null : nodeMirror };
   const out: Window = {
     ...win,
     observed: mirrorState(win.observed, nodeMirror, new Float64Array(win.observed.length)),
-    future, futureStore, frame,
+    future, futureStore, history, historyStore, frame,
     mirrored: !win.mirrored,
     toWorld: (state, o) => frameToWorld(out.frame, state, o),
   };

@@ -20,6 +20,12 @@ export interface WindowOptions {
   headingSeconds?: number;
   /** Least pelvis speed for a motion heading, leg lengths per second (default 0.1); slower uses the hips line. */
   minHeadingSpeed?: number;
+  /**
+   * Steps of causal history kept in the window frame, ending at the last observed step (default: the
+   * observed steps; more gives stride-based priors several strides to average). Fewer are kept near the
+   * take's start.
+   */
+  history?: number;
 }
 
 /** Window options with every default filled and the heading span in steps. */
@@ -28,6 +34,7 @@ export interface ResolvedWindowOptions {
   forecast: number;
   headingSteps: number;
   minHeadingSpeed: number;
+  history: number;
 }
 
 /** Observed and forecast steps, state per node, the frame, and the map back to the world. */
@@ -46,6 +53,13 @@ export interface Window {
   futureSteps: number;
   /** Backing store of `future`, forecast × nodes × 6, reused by fillWindow. */
   futureStore: Float64Array;
+  /**
+   * State of the last `historySteps` steps up to and including the last observed step (historySteps ×
+   * nodes × 6, window frame, mirrored with the window; a view of `historyStore`). Its tail is `observed`.
+   */
+  history: Float64Array;
+  historySteps: number;
+  historyStore: Float64Array;
   frame: WindowFrame;
   /** True when the state is left/right reflected (mirror.ts). */
   mirrored: boolean;
@@ -63,18 +77,22 @@ export function resolveWindowOptions(rate: number, options: WindowOptions = {}):
   if (!Number.isInteger(forecast) || forecast < 0) throw new RangeError(`forecast must be a whole number of steps (got ${forecast})`);
   if (!(seconds > 0) || !(minHeadingSpeed >= 0)) throw new RangeError('headingSeconds must be positive and minHeadingSpeed not negative');
   const headingSteps = Math.max(1, Math.min(observe - 1, Math.round(seconds * rate)));
-  return { observe, forecast, headingSteps, minHeadingSpeed };
+  const history = options.history ?? observe;
+  if (!Number.isInteger(history) || history < observe) throw new RangeError(`history must be a whole number of steps, at least the observed ${observe} (got ${history})`);
+  return { observe, forecast, headingSteps, minHeadingSpeed, history };
 }
 
 /** Returns an empty window sized for a track and options, ready for fillWindow. */
 export function allocateWindow(track: Track, options: ResolvedWindowOptions): Window {
   const W = track.nodeCount * STATE_SIZE;
   const futureStore = new Float64Array(options.forecast * W);
+  const historyStore = new Float64Array(options.history * W);
   const win: Window = {
     path: track.path, rate: track.rate, nodeCount: track.nodeCount,
     observe: options.observe, forecast: options.forecast, endObservedStep: -1,
     observed: new Float64Array(options.observe * W),
     future: futureStore.subarray(0, 0), futureSteps: 0, futureStore,
+    history: historyStore.subarray(0, 0), historySteps: 0, historyStore,
     frame: identityFrame(), mirrored: false,
     toWorld: (state, out) => frameToWorld(win.frame, state, out),
   };
@@ -103,6 +121,12 @@ export function fillWindow(track: Track, e: number, options: ResolvedWindowOptio
   const futureSteps = Math.min(options.forecast, track.steps - 1 - e);
   const W = track.nodeCount * STATE_SIZE;
   fillState(track, frame, e - options.observe + 1, options.observe, win.observed);
+  // History from step 1 at the earliest (step 0 has no backward difference); its tail repeats `observed`.
+  const historySteps = Math.min(options.history, e);
+  if (options.history === options.observe) win.historyStore.set(win.observed);
+  else fillState(track, frame, e - historySteps + 1, historySteps, win.historyStore);
+  if (win.history.length !== historySteps * W) win.history = win.historyStore.subarray(0, historySteps * W);
+  win.historySteps = historySteps;
   if (futureSteps > 0) fillState(track, frame, e + 1, futureSteps, win.futureStore);
   if (win.future.length !== futureSteps * W) win.future = win.futureStore.subarray(0, futureSteps * W);
   win.futureSteps = futureSteps;

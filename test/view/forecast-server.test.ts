@@ -28,7 +28,7 @@ beforeAll(async () => {
   writeFileSync(join(root, 'index.html'), '<!doctype html><title>t</title>');
   // A 6 s take at 60 Hz of an invented subject (180 steps at the model's 30 Hz).
   writeFileSync(takePath, synthesizeTake({ seed: 6161, duration: 6, frameRate: 60 }).bvhText);
-  modelPath = writeTinyModel(work);
+  modelPath = await writeTinyModel(work);
   const imported = importTake(takePath);
   data = buildViewData(imported, { version: '0.0.0-test', caution: 'Caution: test build.' });
   service = new ForecastService(imported, loadModel(modelPath), modelPath);

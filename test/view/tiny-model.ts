@@ -8,12 +8,12 @@ import { trackFromImported } from '../../src/motion/track.js';
 import { fitPair, savePair } from '../../src/model/pair-fit.js';
 
 /** Returns the path of a tiny model file written into `dir`. */
-export function writeTinyModel(dir: string): string {
+export async function writeTinyModel(dir: string): Promise<string> {
   const takes = ['V1', 'V2', 'V3'].map((subject, i) => {
     const path = join(dir, `${subject}.bvh`);
     writeFileSync(path, synthesizeTake({ seed: 5300 + i, duration: 6, frameRate: 60 }).bvhText);
     return { track: trackFromImported(importTake(path)), subject, phase: null };
   });
-  const pair = fitPair(takes, { twin: false, epochs: 1, maxStepsPerEpoch: 3, batchSize: 4, seed: 7, config: { hidden: 12, pairHidden: 8, messageHidden: 8, updateHidden: 16 } });
+  const pair = await fitPair(takes, { twin: false, epochs: 1, maxStepsPerEpoch: 3, batchSize: 4, seed: 7, config: { hidden: 12, pairHidden: 8, messageHidden: 8, updateHidden: 16 } });
   return savePair(join(dir, 'tiny-model.json'), pair);
 }
