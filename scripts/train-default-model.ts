@@ -1,0 +1,81 @@
+// Trains the default coupling model shipped with the package (src/model/default-model.json) and its
+// retrained no-coupling twin on the fixed synthetic training cohort (src/synth/cohort.ts: 32 invented
+// subjects of 30 s, normal gait with natural variability plus one-sided impairments and highly variable
+// walkers), on two threads. Same seed, same machine: the same weights.
+//
+// Run: npm run train:default [-- --epochs N] [--subjects N] [--seconds S] [--seed N] [--output FILE] [--json] [--quiet]
+// (--norms-only recomputes the normative coupling figures of an existing file; experiments: [--config '{"reconSteps": 10}'] [--lr 0.001] [--no-twin]; the shipped model uses none of them)
+import { statSync } from 'node:fs';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { parseArgs } from 'node:util';
+import { progressBar } from '../src/cli/progress.js';
+import type { TrainingTake } from '../src/model/batch.js';
+import { loadModel, saveModel } from '../src/model/modelfile.js';
+import { fitPair, savePair } from '../src/model/pair-fit.js';
+import { trainingCohort } from '../src/synth/cohort.js';
+import { COUPLING_NORMS_KEY, couplingNorms } from '../src/analysis/coupling-asymmetry.js';
+import { takeFactors } from '../src/analysis/factors.js';
+import { cohortTrack } from './model-cohort.js';
+
+/** The recipe of the shipped model: every figure here is stored in the model file's summary too. */
+export const DEFAULT_RECIPE = { subjects: 32, seconds: 30, epochs: 4, seed: 1, windowStride: 6, threads: 2 } as const;
+
+const { values: v } = parseArgs({
+  options: {
+    epochs: { type: 'string' }, subjects: { type: 'string' }, seconds: { type: 'string' }, seed: { type: 'string' },
+    output: { type: 'string' }, json: { type: 'boolean' }, quiet: { type: 'boolean' }, config: { type: 'string' }, 'norms-only': { type: 'boolean' }, lr: { type: 'string' }, twin: { type: 'boolean', default: true }, 'no-twin': { type: 'boolean' },
+  },
+});
+const num = (s: string | undefined, d: number) => (s === undefined ? d : Number(s));
+const recipe = {
+  ...DEFAULT_RECIPE,
+  subjects: num(v.subjects, DEFAULT_RECIPE.subjects), seconds: num(v.seconds, DEFAULT_RECIPE.seconds),
+  epochs: num(v.epochs, DEFAULT_RECIPE.epochs), seed: num(v.seed, DEFAULT_RECIPE.seed),
+};
+const output = v.output ?? join(dirname(fileURLToPath(import.meta.url)), '..', 'src', 'model', 'default-model.json');
+
+const t0 = performance.now();
+const cohort = trainingCohort(recipe.subjects, recipe.seconds);
+const takes: TrainingTake[] = cohort.map((s) => ({ track: cohortTrack(s).track, subject: s.id, phase: null }));
+if (v['norms-only']) {
+  // Recompute only the normative coupling figures of an existing model file (weights untouched).
+  const loaded = loadModel(output);
+  const n = couplingNorms(takes.filter((_, i) => cohort[i]!.group === 'normal').map((t) => takeFactors(loaded.model, t.track)));
+  saveModel(output, loaded.model, loaded.training, { ...loaded.extras, [COUPLING_NORMS_KEY]: n });
+  console.log(`${output}: normative coupling figures from ${n.subjects} normal walkers (control take scores median ${n.controlScoreP50.toFixed(2)}, 90th percentile ${n.controlScoreP90.toFixed(2)})`);
+  process.exit(0);
+}
+const tCohort = performance.now() - t0;
+const bar = progressBar('train', Boolean(v.quiet || v.json));
+let phase = 'model';
+const pair = await fitPair(takes, {
+  config: v.config ? (JSON.parse(v.config) as Record<string, never>) : undefined, learningRate: v.lr ? Number(v.lr) : undefined, twin: !v['no-twin'],
+  epochs: recipe.epochs, seed: recipe.seed, windowStride: recipe.windowStride, threads: recipe.threads,
+  onPhase: (p) => { phase = p; },
+  onProgress: (p) => bar.update(p.epoch * p.stepsPerEpoch + p.step, p.epochs * p.stepsPerEpoch, `${phase} epoch ${p.epoch + 1}/${p.epochs} loss ${p.trainLoss.toFixed(3)}${Number.isFinite(p.validLoss) ? ` held-out ${p.validLoss.toFixed(3)}` : ''}`),
+});
+bar.stop();
+// Normative coupling figures from the cohort's normal walkers (issue: asymmetry against a normative cohort).
+const controls = takes.filter((_, i) => cohort[i]!.group === 'normal');
+const norms = couplingNorms(controls.map((t) => takeFactors(pair.model, t.track)));
+savePair(output, pair, { [COUPLING_NORMS_KEY]: norms });
+const seconds = (performance.now() - t0) / 1000;
+const s = pair.summary;
+const report = {
+  output, bytes: statSync(output).size, recipe, subjects: cohort.length, groups: Object.fromEntries(['normal', 'impaired', 'variable'].map((g) => [g, cohort.filter((c) => c.group === g).length])),
+  cohort_s: Math.round(tCohort / 100) / 10, total_s: Math.round(seconds * 10) / 10,
+  model: { epochs_run: s.epochs, best_epoch: s.bestEpoch + 1, steps: s.steps, ms_per_step: Math.round(s.msPerStep), valid_loss: s.best?.total ?? null, valid_forecast_mm: s.validForecastMm.map((x) => Math.round(x * 10) / 10), kl_static_per_dim: s.best?.klStaticPerDim ?? null, kl_dynamic_per_dim: s.best?.klDynamicPerDim ?? null },
+  twin: pair.twinSummary ? { epochs_run: pair.twinSummary.epochs, best_epoch: pair.twinSummary.bestEpoch + 1, ms_per_step: Math.round(pair.twinSummary.msPerStep), valid_forecast_mm: pair.twinSummary.validForecastMm.map((x) => Math.round(x * 10) / 10) } : null,
+  spread: pair.spread,
+  coupling_norms: { controls: norms.subjects, control_score_p50: norms.controlScoreP50, control_score_p90: norms.controlScoreP90 },
+};
+if (v.json) console.log(JSON.stringify(report, null, 2));
+else {
+  console.log(`wrote ${output} (${(report.bytes / 1024).toFixed(0)} KiB): ${cohort.length} subjects × ${recipe.seconds} s, ${s.epochs} epochs (best ${s.bestEpoch + 1}), ${s.steps} steps at ${report.model.ms_per_step} ms on ${recipe.threads} threads`);
+  console.log(`  held-out forecast error (mm, mean over the second) before training and after each epoch: ${report.model.valid_forecast_mm.join(' ')}`);
+  console.log(`  held-out loss ${report.model.valid_loss?.toFixed(4)}; KL per static dimension ${report.model.kl_static_per_dim?.map((x) => x.toFixed(3)).join(' ')}; per dynamic dimension ${report.model.kl_dynamic_per_dim?.map((x) => x.toFixed(3)).join(' ')}`);
+  console.log(`  twin: ${report.twin ? `${report.twin.epochs_run} epochs (best ${report.twin.best_epoch}), ${report.twin.ms_per_step} ms a step, held-out forecast error ${report.twin.valid_forecast_mm.join(' ')}` : 'none'}; spread scales ${pair.spread.model.toFixed(3)} / ${pair.spread.twin?.toFixed(3) ?? '-'}`);
+  console.log(`  normative coupling figures from ${norms.subjects} normal walkers: control take scores median ${norms.controlScoreP50.toFixed(2)}, 90th percentile ${norms.controlScoreP90.toFixed(2)}`);
+  console.log(`  whole fit ${report.total_s} s (cohort synthesis ${report.cohort_s} s)`);
+}
