@@ -10,6 +10,7 @@ import { register as registerGait } from './gait.js';
 import { register as registerNorms } from './norms.js';
 import { register as registerFit } from './fit.js';
 import { register as registerForecast } from './forecast.js';
+import { register as registerCouplings } from './couplings.js';
 import { register as registerBatch } from './batch.js';
 import { register as registerLedger } from './ledger.js';
 import { register as registerView } from './view.js';
@@ -27,6 +28,7 @@ export function buildProgram(): Command {
   registerNorms(program);
   registerFit(program);
   registerForecast(program);
+  registerCouplings(program);
   registerSynth(program);
   registerBatch(program);
   registerLedger(program);

@@ -1,0 +1,216 @@
+// Left/right asymmetry of the static coupling factors against a normative cohort.
+//
+// For a pair p with mirror m(p) ≠ p (left hip → left knee with right hip → right knee, left knee → right
+// ankle with right knee → left ankle, ...), the difference d_p = static(p) − static(m(p)) is compared with
+// the normative cohort's mean and SD of the same difference (per factor dimension, so any bias of the
+// model between a pair and its mirror is part of "normal"): the pair score is the RMS over dimensions of
+// (d_p − μ_p) / σ_p. The side is the one whose own factors lie farther from the cohort's (z-scored RMS),
+// the interval a percentile bootstrap over blocks of windows (about a stride each), the take score the
+// mean of the five highest pair scores, and the joint the lateral joint whose pairs score highest.
+import { DEFAULT_PAIRS, MOTION_NODES } from '../motion/roles.js';
+import { Pcg32 } from '../nn/prng.js';
+import type { TakeFactors } from './factors.js';
+
+/** Normative static-factor figures per pair (pairs × S each), from control takes. */
+export interface CouplingNorms {
+  subjects: number;
+  staticDims: number;
+  staticMean: number[];
+  staticSd: number[];
+  diffMean: number[];
+  diffSd: number[];
+  /** Take scores of the control takes, each against the figures of the others (leave-one-out): median and 90th percentile. */
+  controlScoreP50: number;
+  controlScoreP90: number;
+}
+
+/** One mirror couple's asymmetry. */
+export interface PairAsymmetry {
+  /** Pair and mirror named by role, "l_hip→l_knee". */
+  pair: string;
+  mirror: string;
+  score: number;
+  ciLow: number;
+  ciHigh: number;
+  /** The side whose factors lie farther from the cohort: 'left', 'right' or 'midline' (both nodes central). */
+  side: 'left' | 'right' | 'midline';
+}
+
+/** A take's coupling asymmetry. */
+export interface CouplingAsymmetry {
+  score: number;
+  ciLow: number;
+  ciHigh: number;
+  side: 'left' | 'right';
+  joint: JointGroup;
+  ranked: PairAsymmetry[];
+  joints: Record<JointGroup, number>;
+  summary: string;
+}
+
+export type JointGroup = 'hip' | 'knee' | 'ankle' | 'shoulder/arm';
+const JOINT_OF: Record<string, JointGroup> = { hip: 'hip', knee: 'knee', ankle: 'ankle', toe: 'ankle', shoulder: 'shoulder/arm', elbow: 'shoulder/arm', wrist: 'shoulder/arm' };
+const TOP = 5;
+
+/** Returns "sender→receiver" of pair p. */
+export function pairName(p: number): string {
+  return `${MOTION_NODES[DEFAULT_PAIRS.sender[p]!]}→${MOTION_NODES[DEFAULT_PAIRS.receiver[p]!]}`;
+}
+
+/** Returns the mirror couples (p < m(p)), each once. */
+export function mirrorCouples(): number[] {
+  const out: number[] = [];
+  for (let p = 0; p < DEFAULT_PAIRS.count; p++) if (DEFAULT_PAIRS.mirror[p]! > p) out.push(p);
+  return out;
+}
+
+/** Returns the lateral side of pair p: that of its first node off the midline. */
+function sideOfPair(p: number): 'left' | 'right' | 'midline' {
+  for (const n of [DEFAULT_PAIRS.sender[p]!, DEFAULT_PAIRS.receiver[p]!]) {
+    const name = MOTION_NODES[n]!;
+    if (name.startsWith('l_')) return 'left';
+    if (name.startsWith('r_')) return 'right';
+  }
+  return 'midline';
+}
+
+/** Returns the normative figures of control takes' static factor means (each take counts once). */
+export function couplingNorms(takes: readonly TakeFactors[]): CouplingNorms {
+  const base = normsOf(takes);
+  // Leave-one-out take scores of the controls: what "normal" looks like on takes the figures did not see.
+  const loo = takes.map((t, i) => {
+    const others = normsOf(takes.filter((_, j) => j !== i));
+    const mean = meanOfWindows(t, Int32Array.from(t.windowEnds, (_, w) => w), new Float64Array(t.pairs * t.staticDims));
+    return takeScore(mirrorCouples().map((p) => coupleScore(mean, p, t.staticDims, others)));
+  }).sort((a, b) => a - b);
+  const at = (q: number) => loo[Math.min(loo.length - 1, Math.round(q * (loo.length - 1)))]!;
+  return { ...base, controlScoreP50: at(0.5), controlScoreP90: at(0.9) };
+}
+
+/** Returns the means and SDs of the static factors and of their pair-minus-mirror differences over takes. */
+function normsOf(takes: readonly TakeFactors[]): Omit<CouplingNorms, 'controlScoreP50' | 'controlScoreP90'> {
+  const t0 = takes[0];
+  if (!t0 || takes.length < 3) throw new RangeError('normative coupling figures need at least three control takes');
+  const P = t0.pairs, S = t0.staticDims, n = takes.length;
+  const acc = (value: (t: TakeFactors, p: number, d: number) => number) => {
+    const mean = new Array<number>(P * S).fill(0), sd = new Array<number>(P * S).fill(0);
+    for (let i = 0; i < P * S; i++) {
+      const p = Math.floor(i / S), d = i % S;
+      const xs = takes.map((t) => value(t, p, d));
+      const m = xs.reduce((s, x) => s + x, 0) / n;
+      mean[i] = m;
+      // A floor keeps a dimension the cohort never varies from dividing by zero.
+      sd[i] = Math.max(1e-3, Math.sqrt(xs.reduce((s, x) => s + (x - m) ** 2, 0) / (n - 1)));
+    }
+    return { mean, sd };
+  };
+  const st = acc((t, p, d) => t.staticMean[p * S + d]!);
+  const df = acc((t, p, d) => t.staticMean[p * S + d]! - t.staticMean[DEFAULT_PAIRS.mirror[p]! * S + d]!);
+  return { subjects: n, staticDims: S, staticMean: st.mean, staticSd: st.sd, diffMean: df.mean, diffSd: df.sd };
+}
+
+/** Writes into `out` (pairs × S) the mean static factors of the chosen windows. */
+function meanOfWindows(f: TakeFactors, windows: ArrayLike<number>, out: Float64Array): Float64Array {
+  const PS = f.pairs * f.staticDims;
+  out.fill(0);
+  for (let k = 0; k < windows.length; k++) {
+    const o = windows[k]! * PS;
+    for (let i = 0; i < PS; i++) out[i]! += f.staticPerWindow[o + i]!;
+  }
+  for (let i = 0; i < PS; i++) out[i]! /= windows.length;
+  return out;
+}
+
+/** Returns the pair score of couple p from mean static factors. */
+function coupleScore(s: Float64Array, p: number, S: number, norms: Pick<CouplingNorms, 'diffMean' | 'diffSd'>): number {
+  const m = DEFAULT_PAIRS.mirror[p]!;
+  let z2 = 0;
+  for (let d = 0; d < S; d++) {
+    const i = p * S + d;
+    z2 += ((s[i]! - s[m * S + d]! - norms.diffMean[i]!) / norms.diffSd[i]!) ** 2;
+  }
+  return Math.sqrt(z2 / S);
+}
+
+/** Returns the z-scored RMS distance of pair p's static factors from the cohort's. */
+function distanceFromNorm(s: Float64Array, p: number, S: number, norms: CouplingNorms): number {
+  let z2 = 0;
+  for (let d = 0; d < S; d++) z2 += ((s[p * S + d]! - norms.staticMean[p * S + d]!) / norms.staticSd[p * S + d]!) ** 2;
+  return Math.sqrt(z2 / S);
+}
+
+/** Returns the take score (mean of the highest TOP couple scores) of a set of couple scores. */
+function takeScore(scores: readonly number[]): number {
+  const top = [...scores].sort((a, b) => b - a).slice(0, TOP);
+  return top.reduce((s, x) => s + x, 0) / top.length;
+}
+
+/**
+ * Returns the coupling asymmetry of a take: ranked couples with bootstrap intervals (`replicates`
+ * resamples of blocks of `blockWindows` consecutive windows, seeded), side, joint and summary.
+ */
+export function couplingAsymmetry(f: TakeFactors, norms: CouplingNorms, options: { replicates?: number; seed?: number; blockWindows?: number } = {}): CouplingAsymmetry {
+  const S = f.staticDims;
+  if (norms.staticDims !== S || norms.staticMean.length !== f.pairs * S) throw new RangeError('the normative coupling figures belong to another model');
+  const couples = mirrorCouples(), n = f.windowEnds.length;
+  const all = Int32Array.from({ length: n }, (_, i) => i);
+  const mean = meanOfWindows(f, all, new Float64Array(f.pairs * S));
+  const scores = couples.map((p) => coupleScore(mean, p, S, norms));
+  // Bootstrap over blocks of windows (about a stride each at the default 0.5 s spacing).
+  const block = Math.max(1, options.blockWindows ?? 2), blocks = Math.ceil(n / block);
+  const R = options.replicates ?? 200, rng = new Pcg32(options.seed ?? 1, 0x626f6f74);
+  const boot = couples.map(() => new Float64Array(R)), bootTake = new Float64Array(R);
+  const pick: number[] = [], buf = new Float64Array(f.pairs * S);
+  for (let r = 0; r < R; r++) {
+    pick.length = 0;
+    for (let b = 0; b < blocks; b++) {
+      const start = Math.floor(rng.next() * blocks) * block;
+      for (let w = start; w < Math.min(n, start + block); w++) pick.push(w);
+    }
+    meanOfWindows(f, pick, buf);
+    const rs = couples.map((p, k) => (boot[k]![r] = coupleScore(buf, p, S, norms)));
+    bootTake[r] = takeScore(rs);
+  }
+  const q = (xs: Float64Array, p: number) => { const s = Float64Array.from(xs).sort(); return s[Math.min(s.length - 1, Math.max(0, Math.round(p * (s.length - 1))))]!; };
+  const ranked: PairAsymmetry[] = couples.map((p, k) => {
+    const m = DEFAULT_PAIRS.mirror[p]!;
+    const own = distanceFromNorm(mean, p, S, norms), other = distanceFromNorm(mean, m, S, norms);
+    const farther = own >= other ? p : m;
+    return { pair: pairName(p), mirror: pairName(m), score: scores[k]!, ciLow: q(boot[k]!, 0.025), ciHigh: q(boot[k]!, 0.975), side: sideOfPair(farther) };
+  }).sort((a, b) => b.score - a.score);
+  // Side: the side named by most of the weight of the top couples; joint: lateral joints' mean couple score.
+  const lateral = ranked.filter((r) => r.side !== 'midline');
+  let lean = 0;
+  for (const r of lateral.slice(0, TOP)) lean += (r.side === 'left' ? 1 : -1) * r.score;
+  const side: 'left' | 'right' = lean >= 0 ? 'left' : 'right';
+  const sums: Record<JointGroup, { s: number; k: number }> = { hip: { s: 0, k: 0 }, knee: { s: 0, k: 0 }, ankle: { s: 0, k: 0 }, 'shoulder/arm': { s: 0, k: 0 } };
+  couples.forEach((p, k) => {
+    const groups = new Set<JointGroup>();
+    for (const nIdx of [DEFAULT_PAIRS.sender[p]!, DEFAULT_PAIRS.receiver[p]!]) {
+      const g = JOINT_OF[MOTION_NODES[nIdx]!.replace(/^[lr]_/, '')];
+      if (g) groups.add(g);
+    }
+    for (const g of groups) { sums[g].s += scores[k]!; sums[g].k++; }
+  });
+  const joints = Object.fromEntries(Object.entries(sums).map(([g, v]) => [g, v.k ? v.s / v.k : 0])) as Record<JointGroup, number>;
+  const joint = (Object.entries(joints) as [JointGroup, number][]).sort((a, b) => b[1] - a[1])[0]![0];
+  const score = takeScore(scores);
+  const ciLow = q(bootTake, 0.025), ciHigh = q(bootTake, 0.975);
+  const top = ranked[0]!;
+  const summary = `Coupling asymmetry ${score.toFixed(2)} (95 % interval ${ciLow.toFixed(2)}-${ciHigh.toFixed(2)}; control takes: median ${norms.controlScoreP50.toFixed(2)}, 90th percentile ${norms.controlScoreP90.toFixed(2)}): the ${side} side lies farther from the cohort, most around the ${joint}; the largest difference is ${top.pair} against ${top.mirror} (${top.score.toFixed(2)}).`;
+  return { score, ciLow, ciHigh, side, joint, ranked, joints, summary };
+}
+
+/** The key of the normative figures among a model file's extras. */
+export const COUPLING_NORMS_KEY = 'coupling_norms';
+
+/** Returns the normative figures stored in a model file's extras, or null when it has none; throws RangeError when they do not fit. */
+export function storedCouplingNorms(extras: Record<string, unknown>, pairs: number, staticDims: number): CouplingNorms | null {
+  const v = extras[COUPLING_NORMS_KEY] as Partial<CouplingNorms> | undefined;
+  if (v === undefined) return null;
+  const n = pairs * staticDims;
+  const ok = (a: unknown) => Array.isArray(a) && a.length === n && a.every((x) => typeof x === 'number' && Number.isFinite(x));
+  if (!v || v.staticDims !== staticDims || !ok(v.staticMean) || !ok(v.staticSd) || !ok(v.diffMean) || !ok(v.diffSd) || typeof v.controlScoreP50 !== 'number' || typeof v.controlScoreP90 !== 'number')
+    throw new RangeError(`the stored normative coupling figures do not fit the model (${pairs} pairs × ${staticDims} dimensions)`);
+  return v as CouplingNorms;
+}
