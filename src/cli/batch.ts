@@ -8,6 +8,8 @@ import { cohortData, writeCohortReport } from '../ledger/cohort.js';
 import { checkOutputFolder, runBatch, type BatchSummary } from '../ledger/batch.js';
 import { DEFAULT_LEDGER, openLedger } from '../ledger/open.js';
 import { cachedNorms, type ScoreOptions } from '../score/compose.js';
+import { defaultModelPath } from '../model/default-model.js';
+import { loadModel } from '../model/modelfile.js';
 import { fileSha256 } from '../score/hash.js';
 import { defaultWorkers } from '../score/pool.js';
 import { parseShard, type Shard } from '../score/shard.js';
@@ -23,7 +25,7 @@ function shown(p: string): string {
 }
 
 interface BatchFlags {
-  model?: string;
+  model?: string | false;
   ledger: string;
   out?: string;
   workers?: number;
@@ -51,9 +53,11 @@ function scoreOptions(flags: BatchFlags): ScoreOptions {
     cachedNorms(normsFile); // refuses a corrupt reference before any work
   }
   let model: ScoreOptions['model'] = { file: null, file_sha256: null, used: false };
-  if (flags.model) {
-    if (!existsSync(flags.model)) throw new InputError(`${flags.model}: no such model file.`);
-    model = { file: flags.model, file_sha256: fileSha256(flags.model), used: false };
+  if (flags.model !== false) {
+    const file = flags.model ?? defaultModelPath();
+    if (!existsSync(file)) throw new InputError(`${file}: no such model file${flags.model === undefined ? ' (the shipped default model); give one with --model or pass --no-model' : ''}.`);
+    loadModel(file); // refuses a corrupt or mismatched model before any work
+    model = { file, file_sha256: fileSha256(file), used: false };
   }
   return {
     tool: 'jointloom', toolVersion: VERSION, lowpassHz: DEFAULT_LOWPASS_HZ, steadyOnly: true,
@@ -64,9 +68,10 @@ function scoreOptions(flags: BatchFlags): ScoreOptions {
 /** Registers `batch` on the program. */
 export function register(program: Command): void {
   const cmd = newCommand('batch')
-    .description('score every BVH take under the given folders into the ledger (gait parameters, symmetry, norm scores); resumable, in a worker pool')
+    .description('score every BVH take under the given folders into the ledger (gait parameters, symmetry, norm scores, forecast surprise timeline with irregular steps); resumable, in a worker pool')
     .argument('<paths...>', 'folders (searched recursively) or BVH files')
-    .option('--model <file>', 'coupling model file: recorded by SHA-256 in every row (no model-based column is computed yet)')
+    .option('--model <file>', 'coupling model for the forecast surprise timeline (default: the shipped model); recorded by SHA-256 in every row')
+    .option('--no-model', 'no model-based stage (no forecast timeline)')
     .option('--ledger <file>', 'SQLite ledger to write (created when missing)', DEFAULT_LEDGER)
     .option('--out <dir>', 'write the cohort report (cohort-report.html, cohort.csv) here; checked before any work')
     .option('--workers <n>', `worker threads (default: one per core, here ${defaultWorkers()})`, numberOption(1, 256, true))

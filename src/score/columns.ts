@@ -15,6 +15,12 @@ export const METRIC_LABELS: Record<string, string> = {
   'gait.asymmetry_flags': 'Asymmetry flags',
   'norms.gps_left_deg': 'GPS L (°)', 'norms.gps_right_deg': 'GPS R (°)', 'norms.gps_overall_deg': 'GPS (°)',
   'norms.gdi_left': 'GDI L', 'norms.gdi_right': 'GDI R',
+  'forecast.forecast_points': 'Forecasts', 'forecast.mpjpe_1s_mm': 'Forecast error at 1 s (mm)',
+  'forecast.stride_mean_1s_mm': 'Stride-mean error at 1 s (mm)', 'forecast.coverage_90': '90 % band coverage',
+  'forecast.surprise_median': 'Median surprise', 'forecast.irregular_steps': 'Irregular steps',
+  'coupling.asymmetry_score': 'Coupling asymmetry', 'coupling.asymmetry_ci_low': 'Coupling asymmetry, 95 % low',
+  'coupling.asymmetry_ci_high': 'Coupling asymmetry, 95 % high', 'coupling.side_right': 'Coupling side (1 = right)',
+  'coupling.control_p90': 'Controls\' 90th percentile',
 };
 
 /** Returns every metric name the stages write, in stage order. */

@@ -11,7 +11,7 @@ export const RECORD_VERSION = 1;
 export interface ModelRef {
   file: string | null;
   file_sha256: string | null;
-  /** Whether any stage used the model (no model-based stage exists yet). */
+  /** Whether any stage used the model (the forecast stage, when the take is long enough). */
   used: boolean;
 }
 

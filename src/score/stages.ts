@@ -1,10 +1,12 @@
 // The stages of scoring, in order. Each reads the shared context (the imported take, results of the
 // stages before it) and returns its metrics, flags and a small detail object. The forecast surprise
-// timeline and the coupling asymmetry are added as further stages in DEFAULT_STAGES.
+// timeline (forecast-stage.ts) and the coupling asymmetry (coupling-stage.ts) follow them.
 import { analyzeGait, gaitResultJson, type GaitAnalysis } from '../gait/analyze.js';
 import type { NormsFile } from '../norms/format.js';
 import { scoreAgainstNorms } from '../norms/score.js';
 import type { ImportedTake } from '../skeleton/import.js';
+import { COUPLING_STAGE } from './coupling-stage.js';
+import { FORECAST_STAGE } from './forecast-stage.js';
 import type { ScoreFlag } from './record.js';
 
 /** What every stage can read; stages fill in their own results for the stages after them. */
@@ -13,7 +15,7 @@ export interface StageContext {
   lowpassHz: number | null;
   steadyOnly: boolean;
   norms: { file: string; data: NormsFile } | null;
-  /** The model file given with --model (no stage reads it yet). */
+  /** The coupling model file (the forecast stage reads it), or null for no model-based stage. */
   modelFile: string | null;
   gait?: GaitAnalysis;
   gaitJson?: Record<string, unknown>;
@@ -101,5 +103,5 @@ export const NORMS_STAGE: ScoreStage = {
   },
 };
 
-/** The stages every batch runs, in order (forecast and coupling stages are appended here). */
-export const DEFAULT_STAGES: readonly ScoreStage[] = [GAIT_STAGE, NORMS_STAGE];
+/** The stages every batch runs, in order. */
+export const DEFAULT_STAGES: readonly ScoreStage[] = [GAIT_STAGE, NORMS_STAGE, FORECAST_STAGE, COUPLING_STAGE];

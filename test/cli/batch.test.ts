@@ -6,7 +6,13 @@ import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createHash } from 'node:crypto';
+import { metricNames } from '../../src/score/columns.js';
 import { cohortSpecs, writeTakes } from '../score/fixtures.js';
+import { writeTinyModel } from '../view/tiny-model.js';
+
+/** Numbers per score: every metric of the default stages (gait, norms, forecast, coupling). */
+const PER_SCORE = metricNames().length;
 
 const repo = resolve(import.meta.dirname, '..', '..');
 const dir = mkdtempSync(join(tmpdir(), 'jointloom-batch-'));
@@ -70,26 +76,32 @@ describe('jointloom batch', () => {
     expect(count(ledger, 'SELECT count(DISTINCT take_id) AS n FROM scores')).toBe(N);
     expect(count(ledger, 'SELECT count(*) AS n FROM takes')).toBe(N);
     expect(count(ledger, 'SELECT count(*) AS n FROM failures')).toBe(0);
-    // Every score has all its numbers (20 columns of the gait and norms stages): none half-written.
-    expect(count(ledger, 'SELECT count(*) AS n FROM score_values')).toBe(N * 20);
+    // Every score has all its numbers (every column of the default stages): none half-written.
+    expect(count(ledger, 'SELECT count(*) AS n FROM score_values')).toBe(N * PER_SCORE);
     const after = new Database(ledger, { readonly: true }).prepare('SELECT s.id, t.sha256, s.scored_at FROM scores s JOIN takes t ON t.id = s.take_id ORDER BY s.id').all();
     expect(after.slice(0, before.length)).toEqual(before); // finished takes were not redone
   });
 
   it('a model file is recorded by its SHA-256; the same takes under another model are scored again, beside the old scores', async () => {
-    const ledger = join(dir, 'kill.sqlite'); // N scores without a model, from the test above
-    const model = join(dir, 'model.json');
-    writeFileSync(model, 'abc');
+    const ledger = join(dir, 'kill.sqlite'); // N scores with the shipped model, from the test above
+    const bad = join(dir, 'bad-model.json');
+    writeFileSync(bad, 'abc');
+    const refused = await jointloom(['batch', takes, '--ledger', ledger, '--model', bad, '--json']);
+    // A corrupt model file is refused before any work, naming the file.
+    expect(refused.code).toBe(1);
+    expect(refused.stderr).toContain(bad);
+    const model = await writeTinyModel(dir);
     const r = await jointloom(['batch', takes, '--ledger', ledger, '--model', model, '--workers', '2', '--json']);
     expect(r.code, r.stderr).toBe(0);
     const s = JSON.parse(r.stdout);
-    // SHA-256("abc"), FIPS 180-2 appendix B.1.
-    expect(s.model_key).toBe('ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad');
-    expect(s.provenance.model).toMatchObject({ file: model, file_sha256: s.model_key, used: false });
+    // The key is the file's SHA-256, checked against node:crypto.
+    expect(s.model_key).toBe(createHash('sha256').update(readFileSync(model)).digest('hex'));
+    expect(s.provenance.model).toMatchObject({ file: model, file_sha256: s.model_key });
     expect(s.scored).toBe(N);
     expect(count(ledger, 'SELECT count(*) AS n FROM scores')).toBe(2 * N);
-    expect(count(ledger, "SELECT count(*) AS n FROM scores WHERE model_key = 'none'")).toBe(N);
-    expect(count(ledger, 'SELECT count(*) AS n FROM models')).toBe(2);
+    expect(count(ledger, `SELECT count(*) AS n FROM scores WHERE model_key = '${s.model_key}'`)).toBe(N);
+    // The schema's 'none' row, the shipped model and the tiny one.
+    expect(count(ledger, 'SELECT count(*) AS n FROM models')).toBe(3);
   });
 
   it('records a corrupt take and a take without subject with their reasons, scores the others and exits 3', async () => {
@@ -156,7 +168,7 @@ describe('jointloom batch', () => {
     expect(sa.scored + sa.skipped + sa.already).toBe(N);
     expect(count(ledger, 'SELECT count(*) AS n FROM scores')).toBe(N);
     expect(count(ledger, 'SELECT count(DISTINCT take_id) AS n FROM scores')).toBe(N);
-    expect(count(ledger, 'SELECT count(*) AS n FROM score_values')).toBe(N * 20);
+    expect(count(ledger, 'SELECT count(*) AS n FROM score_values')).toBe(N * PER_SCORE);
     const db = new Database(ledger, { readonly: true });
     expect(db.pragma('integrity_check', { simple: true })).toBe('ok');
     expect(db.pragma('foreign_key_check')).toEqual([]);

@@ -42,7 +42,7 @@ describe('scoreTake', () => {
     expect(rec.take.sha256).toBe(sha256Hex(bytes));
     expect(rec.provenance.take_sha256).toBe(rec.take.sha256);
     expect(rec.provenance.options).toEqual({ lowpass_hz: 6, steady_only: true, norms_file: SHIPPED_NORMS, norms_sha256: null });
-    expect(rec.provenance.stages.map((s) => s.name)).toEqual(['gait', 'norms']);
+    expect(rec.provenance.stages.map((s) => s.name)).toEqual(['gait', 'norms', 'forecast', 'coupling']);
     // 10 s at 100 Hz is 1000 frames (hand-computed).
     expect(rec.take.frames).toBe(1000);
     expect(rec.take.duration_s).toBe(10);

@@ -1,0 +1,34 @@
+// The coupling stage of scoring: left/right coupling asymmetry of the take's static pair factors against
+// the normative cohort stored in the model file (src/analysis/coupling-asymmetry.ts). A take is flagged
+// when its score lies above the controls' 90th percentile. Skipped without a model or without figures.
+import { couplingAsymmetry, storedCouplingNorms } from '../analysis/coupling-asymmetry.js';
+import { takeFactors } from '../analysis/factors.js';
+import { trackFromImported } from '../motion/track.js';
+import { cachedModel } from './model-cache.js';
+import type { ScoreStage, StageResult } from './stages.js';
+
+const METRICS = ['asymmetry_score', 'asymmetry_ci_low', 'asymmetry_ci_high', 'side_right', 'control_p90'] as const;
+const empty = (): Record<string, number | null> => Object.fromEntries(METRICS.map((m) => [m, null]));
+
+/** The coupling stage: take score with its interval, the side (1 = right, 0 = left) and the controls' 90th percentile. */
+export const COUPLING_STAGE: ScoreStage = {
+  name: 'coupling',
+  version: 1,
+  metrics: METRICS,
+  run(ctx): StageResult {
+    if (!ctx.modelFile) return { metrics: empty(), detail: { model: null } };
+    const loaded = cachedModel(ctx.modelFile), model = loaded.model, c = model.config;
+    const norms = storedCouplingNorms(loaded.extras, c.nodes * (c.nodes - 1), c.staticDims);
+    if (!norms) return { metrics: empty(), detail: { model: ctx.modelFile }, warnings: [`${ctx.modelFile} holds no normative coupling figures; no coupling asymmetry was scored`] };
+    const track = trackFromImported(ctx.imported, { rate: c.rate });
+    if (track.steps <= c.observe) return { metrics: empty(), usedModel: true, detail: { model: ctx.modelFile }, warnings: [`the take is too short for coupling factors (it needs more than ${(c.observe / c.rate).toFixed(1)} s)`] };
+    const a = couplingAsymmetry(takeFactors(model, track), norms);
+    const flagged = a.score > norms.controlScoreP90;
+    return {
+      metrics: { asymmetry_score: a.score, asymmetry_ci_low: a.ciLow, asymmetry_ci_high: a.ciHigh, side_right: a.side === 'right' ? 1 : 0, control_p90: norms.controlScoreP90 },
+      flags: flagged ? [{ stage: 'coupling', measure: 'asymmetry', value: a.score, text: `coupling asymmetry ${a.score.toFixed(2)} above the controls' 90th percentile (${norms.controlScoreP90.toFixed(2)}): ${a.side} side, around the ${a.joint}` }] : [],
+      detail: { model: ctx.modelFile, side: a.side, joint: a.joint, summary: a.summary, top: a.ranked.slice(0, 5).map((r) => ({ pair: r.pair, mirror: r.mirror, score: r.score, ci_low: r.ciLow, ci_high: r.ciHigh, side: r.side })) },
+      usedModel: true,
+    };
+  },
+};
