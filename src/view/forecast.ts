@@ -8,6 +8,7 @@ import { HORIZONS_S } from '../model/metrics.js';
 import { nodeSources } from '../motion/roles.js';
 import { trackFromImported, type Track } from '../motion/track.js';
 import type { ImportedTake } from '../skeleton/import.js';
+import { viewFactors } from './factors.js';
 import type { ViewForecast, ViewForecastInfo } from './types.js';
 
 /** Default and largest number of samples a forecast request may ask for. */
@@ -56,6 +57,7 @@ export class ForecastService {
   private readonly cache = new Map<string, Buffer>();
   private readonly nodeJoints: [number, number][];
   private readonly bones: [number, number][];
+  private factorBytes: Buffer | null = null;
 
   constructor(imported: ImportedTake, private readonly loaded: LoadedModel, modelPath: string) {
     const c = loaded.model.config;
@@ -93,6 +95,12 @@ export class ForecastService {
     this.cache.set(key, bytes);
     if (this.cache.size > CACHE_SIZE) this.cache.delete(this.cache.keys().next().value!);
     return bytes;
+  }
+
+  /** Returns the JSON bytes of the factor heat (computed on the first call). */
+  factors(): Buffer {
+    this.factorBytes ??= Buffer.from(JSON.stringify(viewFactors(this.track, this.loaded, this.nodeJoints)));
+    return this.factorBytes;
   }
 
   /** Returns the forecast from track step `end` with `samples` samples, in the display frame. */

@@ -9,7 +9,7 @@
 //   /api/pairs        the pair-line layer's measure (pair distance spread)
 //   /api/forecast     ?t=SECONDS&samples=N: the model's forecast from t (only when a model was given;
 //                     a bad t or N is 400 with a JSON error)
-// Later: /api/factors.
+//   /api/factors      the coupling model's pair factor heat and ranked asymmetry (only with a model)
 // Anything else is 404; a Host header that is not a loopback name is 403.
 import { createServer, type IncomingMessage, type Server, type ServerResponse } from 'node:http';
 import { existsSync, readFileSync, realpathSync } from 'node:fs';
@@ -57,7 +57,7 @@ interface Body {
 /** Returns the API bodies, serialised once. */
 function apiBodies(data: ViewData, forecast: ForecastService | null): Map<string, Body> {
   const json = (v: unknown): Body => ({ type: 'application/json; charset=utf-8', bytes: Buffer.from(JSON.stringify(v)) });
-  const take = forecast ? { ...data.take, features: { ...data.take.features, forecast: true }, forecast: forecast.info } : data.take;
+  const take = forecast ? { ...data.take, features: { ...data.take.features, forecast: true, factors: true }, forecast: forecast.info } : data.take;
   return new Map([
     ['/api/take', json(take)],
     ['/api/positions', { type: 'application/octet-stream', bytes: data.positions }],
@@ -106,6 +106,15 @@ export async function startViewServer(options: ViewServerOptions): Promise<ViewS
       }
       if (!Buffer.isBuffer(answer)) return sendError(res, req, answer.status, answer.error);
       return send(res, req, 200, 'application/json; charset=utf-8', answer, 'no-store');
+    }
+    if (path === '/api/factors' && forecast) {
+      let bytes: Buffer;
+      try {
+        bytes = forecast.factors();
+      } catch (err) {
+        return sendError(res, req, 500, `the factors failed: ${err instanceof Error ? err.message : String(err)}`);
+      }
+      return send(res, req, 200, 'application/json; charset=utf-8', bytes, 'no-store');
     }
     if (path.startsWith('/api/')) return sendError(res, req, 404, 'no such API route');
     const file = resolveStatic(root, path);

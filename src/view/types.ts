@@ -1,6 +1,6 @@
 // The JSON shapes of the viewer's API (`jointloom view`), shared by the server and the browser app.
-// The forecast endpoint (/api/forecast?t=) answers when a model was given; the factor endpoint joins
-// later under /api/factors; `features` tells the page which of them the server offers.
+// The forecast (/api/forecast?t=) and factor (/api/factors) endpoints answer when a model was given;
+// `features` tells the page which of them the server offers.
 
 /** Which side of the body a joint belongs to, for colour and line style. */
 export type ViewSide = 'left' | 'right' | 'centre';
@@ -132,4 +132,29 @@ export interface ViewForecast {
   samples: number[][];
   /** Null when the take ends before the forecast second does. */
   scores: ViewForecastScores | null;
+}
+
+/** One unordered node pair of the factor heat, drawn between the given display joints. */
+export interface ViewFactorPair {
+  a: number;
+  b: number;
+  /** "roleA–roleB" (the pair filter reads the roles' sides). */
+  label: string;
+  /** Information in the pair's static factors: KL of their posterior from the N(0, 1) prior, nats, mean of both orders. */
+  static: number;
+  /** Size of the pair's dynamic factors (Euclidean norm of the posterior mean, mean of both orders) per window. */
+  dynamic: number[];
+}
+
+/** GET /api/factors: the coupling model's pair factors over the take (only when a model was given). */
+export interface ViewFactors {
+  format: 'jointloom-view-factors';
+  version: 1;
+  /** Time (seconds) of each window's last observed step; a frame shows the latest window at or before it. */
+  times: number[];
+  pairs: ViewFactorPair[];
+  staticRange: [number, number];
+  dynamicRange: [number, number];
+  /** The coupling asymmetry against the model's normative cohort, or null when the model holds none. */
+  asymmetry: { summary: string; side: string; joint: string; ranked: { pair: string; mirror: string; score: number; ci_low: number; ci_high: number; side: string }[] } | null;
 }

@@ -11,7 +11,7 @@ import { createEvaluator, forecastAt } from '../../src/model/evaluate.js';
 import { buildViewData, type ViewData } from '../../src/view/data.js';
 import { ForecastService } from '../../src/view/forecast.js';
 import { startViewServer, type ViewServer } from '../../src/view/server.js';
-import type { ViewForecast, ViewTake } from '../../src/view/types.js';
+import type { ViewFactors, ViewForecast, ViewTake } from '../../src/view/types.js';
 import { rawRequest } from './http.js';
 import { writeTinyModel } from './tiny-model.js';
 
@@ -155,8 +155,35 @@ describe('/api/forecast with a model', () => {
     expect(b.body.equals(a.body)).toBe(true);
   });
 
-  for (const path of ['/api/nope', '/api/factors', '/api/forecast/x', '/nope'])
+  for (const path of ['/api/nope', '/api/forecast/x', '/nope'])
     test(`unknown path ${path} stays 404`, async () => {
       expect((await rawRequest(server.port, path)).status).toBe(404);
     });
+});
+
+describe('/api/factors with a model', () => {
+  test('/api/take offers the factors; the heat has every unordered node pair and one value per window', async () => {
+    const t = (await get('/api/take')).body as unknown as ViewTake;
+    expect(t.features.factors).toBe(true);
+    const r = await get('/api/factors');
+    expect(r.status).toBe(200);
+    const f = r.body as unknown as ViewFactors;
+    expect(f.format).toBe('jointloom-view-factors');
+    // 17 nodes give 17 · 16 / 2 = 136 unordered pairs (hand-computed).
+    expect(f.pairs).toHaveLength(136);
+    // Windows end every 6 steps (0.2 s) from step 60 (2 s observed) to the last, 179: steps 60 … 174, 20 windows.
+    expect(f.times[0]).toBe(2);
+    expect(f.times[19]).toBeCloseTo(5.8, 4);
+    expect(f.times).toHaveLength(20);
+    for (const p of f.pairs) {
+      expect(p.dynamic).toHaveLength(20);
+      expect(p.static).toBeGreaterThanOrEqual(f.staticRange[0]);
+      expect(p.static).toBeLessThanOrEqual(f.staticRange[1]);
+      expect(p.label).toMatch(/^[a-z_]+–[a-z_]+$/);
+    }
+    // KL divergences are never negative.
+    expect(f.staticRange[0]).toBeGreaterThanOrEqual(0);
+    // The tiny model holds no normative coupling figures.
+    expect(f.asymmetry).toBeNull();
+  });
 });

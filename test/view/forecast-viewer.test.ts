@@ -137,6 +137,32 @@ describe.skipIf(!haveChromium())('forecast overlay in Chromium', () => {
     await p2.close();
   });
 
+  test('the pair lines switch from distance spread to static coupling and to the dynamic factors of the current window', async () => {
+    await page.evaluate(() => { const v = (globalThis as unknown as PageGlobals).__jointloomView; v.setForecast(false); v.seek(500); v.setPairs(true); });
+    const geometry = await probe();
+    expect(await page.textContent('#legend-title')).toContain('pair distance spread');
+    await page.evaluate(() => (globalThis as unknown as PageGlobals).__jointloomView.setHeat('static'));
+    const stat = await probe();
+    // Same frame, same lines: only their colours changed.
+    expect(stat.hash).not.toBe(geometry.hash);
+    expect(await page.textContent('#legend-title')).toContain('static coupling');
+    expect(await page.textContent('#legend-note')).toContain('coupling model factors');
+    await page.keyboard.press('g');
+    const dyn = await probe();
+    expect(await page.evaluate(() => (globalThis as unknown as PageGlobals).__jointloomView.heatSource)).toBe('dynamic');
+    expect(dyn.hash).not.toBe(stat.hash);
+    // Display frame 500 at 50 Hz is 10.00 s; windows end every 0.2 s from 2.00 s, so window (10 − 2) / 0.2 = 40 (hand-computed).
+    expect(await page.evaluate(() => (globalThis as unknown as PageGlobals).__jointloomView.heatWindow)).toBe(40);
+    expect(await page.textContent('#legend-title')).toContain('dynamic factors at 10.00 s');
+    await page.evaluate(() => (globalThis as unknown as PageGlobals).__jointloomView.seek(600));
+    await probe();
+    // 12.00 s: window (12 − 2) / 0.2 = 50.
+    expect(await page.evaluate(() => (globalThis as unknown as PageGlobals).__jointloomView.heatWindow)).toBe(50);
+    await page.screenshot({ path: join(SHOTS, 'viewer-factor-heat.png') });
+    // The tiny model holds no normative figures, and the panel says so.
+    expect(await page.textContent('#asymmetry-panel')).toContain('no normative coupling figures');
+  });
+
   test('no page error was raised', () => {
     expect(pageErrors).toEqual([]);
   });

@@ -24,8 +24,12 @@ export interface ViewHook {
   forecastsReceived: number;
   forecastTime: number | null;
   forecastStep: number;
+  heatSource: string;
+  heatWindow: number;
   seek(d: number): void;
   setForecast(on: boolean): void;
+  setHeat(source: string): void;
+  setPairs(on: boolean): void;
   setPlaying(on: boolean): void;
   probe(): Probe;
 }

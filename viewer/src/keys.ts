@@ -2,7 +2,7 @@
 
 export type Action =
   | 'play' | 'back' | 'forward' | 'back1s' | 'forward1s' | 'start' | 'end'
-  | 'slower' | 'faster' | 'nextEvent' | 'prevEvent' | 'follow' | 'forecast' | 'pairs' | 'camera' | 'help' | 'close';
+  | 'slower' | 'faster' | 'nextEvent' | 'prevEvent' | 'follow' | 'forecast' | 'pairs' | 'heat' | 'camera' | 'help' | 'close';
 
 /** Keys (KeyboardEvent.key, with "Shift+" when shift matters), their action and help text. */
 export const SHORTCUTS: readonly { keys: string[]; action: Action; text: string }[] = [
@@ -20,6 +20,7 @@ export const SHORTCUTS: readonly { keys: string[]; action: Action; text: string 
   { keys: ['c'], action: 'follow', text: 'camera follows the subject on / off' },
   { keys: ['f'], action: 'forecast', text: 'forecast overlay on / off (the next second from the current time)' },
   { keys: ['p'], action: 'pairs', text: 'pair lines and legend on / off' },
+  { keys: ['g'], action: 'heat', text: 'pair-line colour: distance spread, static coupling, dynamic factors at this time' },
   { keys: ['r'], action: 'camera', text: 'reset the camera' },
   { keys: ['?', 'h'], action: 'help', text: 'this list' },
   { keys: ['Escape'], action: 'close', text: 'close this list' },

@@ -7,6 +7,8 @@ import { ForecastView } from './forecast-view.js';
 import { actionOf, keyLabel, SHORTCUTS, type Action } from './keys.js';
 import { renderSummary } from './panel.js';
 import { PairLines, paintLegendBar, type PairFilter } from './pairlines.js';
+import { heatPairs, windowAt, type HeatSource } from './heat.js';
+import { renderAsymmetry } from './asymmetry-panel.js';
 import { Playback, SPEEDS } from './playback.js';
 import { SkeletonView } from './skeleton.js';
 import { addGrid, createStage, placeCamera, snapGrid } from './stage.js';
@@ -27,7 +29,12 @@ interface ViewHook {
   forecastsReceived: number;
   forecastTime: number | null;
   forecastStep: number;
+  /** Pair-line colour source and the dynamic heat's current window (-1 before one is drawn). */
+  heatSource: string;
+  heatWindow: number;
   seek(d: number): void;
+  setHeat(source: string): void;
+  setPairs(on: boolean): void;
   setForecast(on: boolean): void;
   setPlaying(on: boolean): void;
   probe(): ProbeResult;
@@ -46,8 +53,8 @@ const $ = <T extends HTMLElement>(id: string) => document.getElementById(id) as 
 
 const hook: ViewHook = {
   ready: false, error: null, frame: 0, sourceFrame: 0, rendered: 0, firstFrameMs: null, playing: false,
-  forecastOn: false, forecastsReceived: 0, forecastTime: null, forecastStep: 0,
-  seek: () => {}, setPlaying: () => {}, setForecast: () => {}, probe: () => ({ width: 0, height: 0, nonBackground: 0, left: 0, right: 0, hash: 0 }),
+  forecastOn: false, forecastsReceived: 0, forecastTime: null, forecastStep: 0, heatSource: 'geometry', heatWindow: -1,
+  seek: () => {}, setPlaying: () => {}, setForecast: () => {}, setHeat: () => {}, setPairs: () => {}, probe: () => ({ width: 0, height: 0, nonBackground: 0, left: 0, right: 0, hash: 0 }),
 };
 window.__jointloomView = hook;
 
@@ -70,7 +77,7 @@ function fillHelp(): void {
 }
 
 function start(data: LoadedTake): void {
-  const { take, positions, events, gait, pairs } = data;
+  const { take, positions, events, gait, pairs, factors } = data;
   $('take-name').textContent = take.file;
   $('take-facts').textContent =
     `${take.sourceFps.toFixed(take.sourceFps % 1 ? 2 : 0)} Hz · ${take.sourceFrames} frames · ${take.durationS.toFixed(1)} s · ${take.joints.length} joints · ${take.units}, up ${take.up}` +
@@ -84,13 +91,18 @@ function start(data: LoadedTake): void {
   stage.scene.add(skeleton.group);
   const forecastView = take.forecast ? new ForecastView(take.forecast.nodes.length, take.forecast.bones, FORECAST_SAMPLES) : null;
   if (forecastView) stage.scene.add(forecastView.group);
-  const pairLines = pairs && pairs.pairs.length ? new PairLines(pairs, positions, take.joints.length) : null;
+  const initialPairs = pairs && pairs.pairs.length ? pairs : factors ? heatPairs(factors, 'static') : null;
+  const pairLines = initialPairs ? new PairLines(initialPairs, positions, take.joints.length) : null;
   if (pairLines) stage.scene.add(pairLines.lines);
-  if (pairs) {
-    $('legend-title').textContent = `${pairs.measure} (${pairs.unit})`;
-    $('legend-min').textContent = pairs.min.toFixed(1);
-    $('legend-max').textContent = pairs.max.toFixed(1);
-    $('legend-note').textContent = 'viridis · a geometric measure over the whole take, not the coupling model';
+  renderAsymmetry($('asymmetry-panel'), factors, 'no model given: start the viewer with --model FILE (or the shipped model) for the coupling factors');
+  const legendFor = (vp: NonNullable<typeof initialPairs>, source: HeatSource) => {
+    $('legend-title').textContent = `${vp.measure} (${vp.unit})`;
+    $('legend-min').textContent = vp.min.toFixed(vp.max - vp.min < 1 ? 2 : 1);
+    $('legend-max').textContent = vp.max.toFixed(vp.max - vp.min < 1 ? 2 : 1);
+    $('legend-note').textContent = source === 'geometry' ? 'viridis · a geometric measure over the whole take, not the coupling model' : `viridis · coupling model factors, ${source === 'static' ? 'whole take' : 'window ending at this time'}`;
+  };
+  if (initialPairs) {
+    legendFor(initialPairs, pairs && pairs.pairs.length ? 'geometry' : 'static');
     paintLegendBar($<HTMLCanvasElement>('legend-bar'));
   }
 
@@ -148,6 +160,8 @@ function start(data: LoadedTake): void {
   const legend = $('legend');
   const help = $('help');
   let shown = -1;
+  // Set below, once the heat controls exist; show() calls it for the dynamic heat.
+  let applyHeat = (_d: number): void => {};
 
   const follow = (d: number) => {
     if (!followBox.checked) return;
@@ -161,6 +175,7 @@ function start(data: LoadedTake): void {
     if (d === shown) return;
     shown = d;
     skeleton.setFrame(d);
+    applyHeat(d);
     pairLines?.setFrame(d);
     follow(d);
     skeleton.jointAt(d, take.pelvis, p);
@@ -199,12 +214,46 @@ function start(data: LoadedTake): void {
   const setFilter = (f: PairFilter) => {
     if (!pairLines) return;
     const n = pairLines.setFilter(f);
-    countText.textContent = `${n} of ${pairs!.pairs.length} pairs shown`;
+    countText.textContent = `${n} of ${pairLines.source.pairs.length} pairs shown`;
     shown = -1;
     show(playback.frame);
   };
   setFilter('all');
   filterSel.addEventListener('change', () => setFilter(filterSel.value as PairFilter));
+  // Heat source: the geometric spread, or the model's static or dynamic factors (dynamic follows the time).
+  const heatSel = $<HTMLSelectElement>('heat-source');
+  let heat: HeatSource = pairs && pairs.pairs.length ? 'geometry' : 'static';
+  let heatWindow = -1;
+  heatSel.value = heat;
+  heatSel.disabled = !pairLines || !factors;
+  applyHeat = (d: number) => {
+    if (!pairLines || heat !== 'dynamic' || !factors) return;
+    const w = windowAt(factors.times, (d * take.stride) / take.sourceFps);
+    if (w === heatWindow) return;
+    heatWindow = w;
+    const vp = heatPairs(factors, 'dynamic', w);
+    pairLines.setSource(vp);
+    legendFor(vp, 'dynamic');
+    hook.heatWindow = w;
+  };
+  const setHeat = (source: HeatSource) => {
+    if (!pairLines || (source !== 'geometry' && !factors) || (source === 'geometry' && !(pairs && pairs.pairs.length))) return;
+    heat = source;
+    heatSel.value = source;
+    hook.heatSource = source;
+    heatWindow = -1;
+    if (source === 'dynamic') applyHeat(playback.frame);
+    else {
+      const vp = source === 'static' ? heatPairs(factors!, 'static') : pairs!;
+      pairLines.setSource(vp);
+      legendFor(vp, source);
+    }
+    countText.textContent = `${pairLines.setFilter(filterSel.value as PairFilter)} of ${pairLines.source.pairs.length} pairs shown`;
+    shown = -1;
+    show(playback.frame);
+  };
+  heatSel.addEventListener('change', () => setHeat(heatSel.value as HeatSource));
+  hook.heatSource = heat;
   const eventFrames = events.events.filter((e) => e.kind === 'initial_contact').map((e) => Math.round(e.frame / take.stride)).sort((a, b) => a - b);
   const act = (a: Action) => {
     switch (a) {
@@ -220,6 +269,7 @@ function start(data: LoadedTake): void {
       case 'prevEvent': { const f = [...eventFrames].reverse().find((x) => x < playback.frame); if (f !== undefined) { setPlaying(false); show(playback.seek(f)); } break; }
       case 'follow': followBox.checked = !followBox.checked; if (followBox.checked) resetCamera(playback.frame); break;
       case 'pairs': setPairs(!pairsBox.checked); break;
+      case 'heat': { const order: HeatSource[] = pairs && pairs.pairs.length ? ['geometry', 'static', 'dynamic'] : ['static', 'dynamic']; setHeat(order[(order.indexOf(heat) + 1) % order.length]!); break; }
       case 'forecast': setForecast(!forecastBox.checked); break;
       case 'camera': resetCamera(playback.frame); break;
       case 'help': help.hidden = !help.hidden; break;
@@ -291,6 +341,8 @@ function start(data: LoadedTake): void {
   hook.seek = (d: number) => { setPlaying(false); show(playback.seek(d)); };
   hook.setPlaying = setPlaying;
   hook.setForecast = setForecast;
+  hook.setHeat = (src: string) => setHeat(src as HeatSource);
+  hook.setPairs = setPairs;
   hook.probe = () => { updateForecast(); render(); return probe(stage.renderer, stage.background); };
   hook.ready = true;
 }

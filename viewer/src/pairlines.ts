@@ -1,5 +1,6 @@
 // The pair-line layer: one thin line per role pair, coloured by the pair's value on viridis, with a
-// filter by body side. Fed now by the server's pair distance spread; the coupling factors take its place later.
+// filter by body side. Fed by the server's pair distance spread, or by the coupling model's factor heat
+// (static, or dynamic at the current window: heat.ts), swapped in with setSource.
 import { Color, SRGBColorSpace, type InterleavedBufferAttribute } from 'three';
 import { LineMaterial } from 'three/addons/lines/LineMaterial.js';
 import { LineSegments2 } from 'three/addons/lines/LineSegments2.js';
@@ -18,7 +19,9 @@ export class PairLines {
   private attr: InterleavedBufferAttribute | null = null;
   private readonly geometry = new LineSegmentsGeometry();
 
-  constructor(private readonly pairs: ViewPairs, private readonly positions: Float32Array, private readonly J: number) {
+  private filter: PairFilter = 'all';
+
+  constructor(private pairs: ViewPairs, private readonly positions: Float32Array, private readonly J: number) {
     this.material = new LineMaterial({ vertexColors: true, linewidth: 1.6, transparent: true, opacity: 0.8, depthWrite: false, worldUnits: false });
     this.lines = new LineSegments2(this.geometry, this.material);
     this.lines.frustumCulled = false;
@@ -27,8 +30,20 @@ export class PairLines {
     this.setFilter('all');
   }
 
+  /** Returns the pairs and measure drawn now. */
+  get source(): ViewPairs {
+    return this.pairs;
+  }
+
+  /** Draws another measure over its own pairs (the filter is kept) and returns how many are drawn. */
+  setSource(pairs: ViewPairs): number {
+    this.pairs = pairs;
+    return this.setFilter(this.filter);
+  }
+
   /** Keeps only the pairs that pass the filter and returns how many are drawn. */
   setFilter(filter: PairFilter): number {
+    this.filter = filter;
     const kept = this.pairs.pairs.filter((p) => pairPasses(p.label, filter));
     this.ends = new Int32Array(kept.length * 2);
     const colours = new Float32Array(kept.length * 6);
