@@ -1,7 +1,7 @@
 // The main job on the fictional clinic's demo takes, through the built CLI exactly as a user runs it.
 // Run by `npm run demo` after `npm run build`. Writes everything under out/demo/.
 import { spawnSync } from 'node:child_process';
-import { mkdirSync, readdirSync, rmSync } from 'node:fs';
+import { mkdirSync, readFileSync, readdirSync, rmSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 
 const root = resolve(import.meta.dirname, '..');
@@ -45,7 +45,42 @@ for (const t of takes) {
       `${fx(g.stance_pct.left, 1)}/${fx(g.stance_pct.right, 1)}    ${fx(g.knee_flexion_peak_swing_deg.left, 1)}/${fx(g.knee_flexion_peak_swing_deg.right, 1)}    ${fx(gps, 2).padStart(5)}  ${flag}`,
   );
 }
+// 3. The model's view of each take, from the cohort table the batch wrote: the forecast of the next second
+// (model against the stride-mean baseline, irregular steps) and the left/right coupling asymmetry.
+const rows = parseCsv(readFileSync(batch.report.csv, 'utf8'));
+const head = rows[0], col = (r, name) => r[head.indexOf(name)];
+const num = (v, d) => (v === '' || v === undefined ? '–' : Number(v).toFixed(d));
+console.log('\ntake                   forecast 1 s mm (stride mean)  irregular  coupling asymmetry [95 %]  side   controls p90');
+for (const r of rows.slice(1).sort((a, b) => col(a, 'take').localeCompare(col(b, 'take')))) {
+  const side = col(r, 'coupling.side_right') === '' ? '–' : col(r, 'coupling.side_right') === '1' ? 'right' : 'left';
+  console.log(
+    `${col(r, 'take').padEnd(22)} ${num(col(r, 'forecast.mpjpe_1s_mm'), 1).padStart(6)} (${num(col(r, 'forecast.stride_mean_1s_mm'), 1)})`.padEnd(54) +
+      `${num(col(r, 'forecast.irregular_steps'), 0).padStart(5)}      ${num(col(r, 'coupling.asymmetry_score'), 2).padStart(5)} [${num(col(r, 'coupling.asymmetry_ci_low'), 2)}-${num(col(r, 'coupling.asymmetry_ci_high'), 2)}]`.padEnd(38) +
+      `${side.padEnd(6)} ${num(col(r, 'coupling.control_p90'), 2)}`,
+  );
+}
 console.log(`\ncohort report: ${batch.report.html}`);
 console.log(`cohort table:  ${batch.report.csv}`);
 console.log(`gait reports:  ${outDir}/*.gait.html (bands from the synthetic reference, not clinical)`);
 console.log('\nCaution: a research and quality aid, not a diagnostic device; results are reviewed by a qualified clinician.');
+
+/** Returns the rows of a CSV text (RFC 4180 quoting: "" inside quoted fields). */
+function parseCsv(text) {
+  const rows = [];
+  let row = [], field = '', quoted = false;
+  for (let i = 0; i < text.length; i++) {
+    const ch = text[i];
+    if (quoted) {
+      if (ch === '"' && text[i + 1] === '"') { field += '"'; i++; }
+      else if (ch === '"') quoted = false;
+      else field += ch;
+    } else if (ch === '"') quoted = true;
+    else if (ch === ',') { row.push(field); field = ''; }
+    else if (ch === '\n' || ch === '\r') {
+      if (ch === '\r' && text[i + 1] === '\n') i++;
+      row.push(field); rows.push(row); row = []; field = '';
+    } else field += ch;
+  }
+  if (field !== '' || row.length) { row.push(field); rows.push(row); }
+  return rows;
+}

@@ -4,9 +4,10 @@
 // ankle with right knee → left ankle, ...), the difference d_p = static(p) − static(m(p)) is compared with
 // the normative cohort's mean and SD of the same difference (per factor dimension, so any bias of the
 // model between a pair and its mirror is part of "normal"): the pair score is the RMS over dimensions of
-// (d_p − μ_p) / σ_p. The side is the one whose own factors lie farther from the cohort's (z-scored RMS),
-// the interval a percentile bootstrap over blocks of windows (about a stride each), the take score the
-// mean of the five highest pair scores, and the joint the lateral joint whose pairs score highest.
+// (d_p − μ_p) / σ_p. The interval is a percentile bootstrap over blocks of windows (about a stride each),
+// the take score the mean of the five highest pair scores, the joint the lateral joint group whose couples
+// score highest, and the side that of the group's nodes lying farther from the cohort (a node's distance:
+// the mean z-scored RMS distance of its pairs' factors from the cohort's).
 import { DEFAULT_PAIRS, MOTION_NODES } from '../motion/roles.js';
 import { Pcg32 } from '../nn/prng.js';
 import type { TakeFactors } from './factors.js';
@@ -64,14 +65,10 @@ export function mirrorCouples(): number[] {
   return out;
 }
 
-/** Returns the lateral side of pair p: that of its first node off the midline. */
-function sideOfPair(p: number): 'left' | 'right' | 'midline' {
-  for (const n of [DEFAULT_PAIRS.sender[p]!, DEFAULT_PAIRS.receiver[p]!]) {
-    const name = MOTION_NODES[n]!;
-    if (name.startsWith('l_')) return 'left';
-    if (name.startsWith('r_')) return 'right';
-  }
-  return 'midline';
+/** Returns the side of node n. */
+function sideOfNode(n: number): 'left' | 'right' | 'midline' {
+  const name = MOTION_NODES[n]!;
+  return name.startsWith('l_') ? 'left' : name.startsWith('r_') ? 'right' : 'midline';
 }
 
 /** Returns the normative figures of control takes' static factor means (each take counts once). */
@@ -172,17 +169,27 @@ export function couplingAsymmetry(f: TakeFactors, norms: CouplingNorms, options:
     bootTake[r] = takeScore(rs);
   }
   const q = (xs: Float64Array, p: number) => { const s = Float64Array.from(xs).sort(); return s[Math.min(s.length - 1, Math.max(0, Math.round(p * (s.length - 1))))]!; };
+  // Node deviation: the mean distance from the cohort of the pairs a node belongs to (both orders).
+  const nodeDev = new Float64Array(MOTION_NODES.length), nodeCount = new Float64Array(MOTION_NODES.length);
+  for (let p = 0; p < f.pairs; p++) {
+    const d = distanceFromNorm(mean, p, S, norms);
+    for (const nIdx of [DEFAULT_PAIRS.sender[p]!, DEFAULT_PAIRS.receiver[p]!]) { nodeDev[nIdx]! += d; nodeCount[nIdx]!++; }
+  }
+  for (let n = 0; n < nodeDev.length; n++) nodeDev[n]! /= Math.max(1, nodeCount[n]!);
+  // A pair's side: that of its nodes when both lie on one side, else that of the node farther from the cohort.
+  const sideOf = (p: number): 'left' | 'right' | 'midline' => {
+    const a = DEFAULT_PAIRS.sender[p]!, b = DEFAULT_PAIRS.receiver[p]!;
+    const sa = sideOfNode(a), sb = sideOfNode(b);
+    if (sa === sb || sb === 'midline') return sa;
+    if (sa === 'midline') return sb;
+    return nodeDev[a]! >= nodeDev[b]! ? sa : sb;
+  };
   const ranked: PairAsymmetry[] = couples.map((p, k) => {
     const m = DEFAULT_PAIRS.mirror[p]!;
     const own = distanceFromNorm(mean, p, S, norms), other = distanceFromNorm(mean, m, S, norms);
-    const farther = own >= other ? p : m;
-    return { pair: pairName(p), mirror: pairName(m), score: scores[k]!, ciLow: q(boot[k]!, 0.025), ciHigh: q(boot[k]!, 0.975), side: sideOfPair(farther) };
+    return { pair: pairName(p), mirror: pairName(m), score: scores[k]!, ciLow: q(boot[k]!, 0.025), ciHigh: q(boot[k]!, 0.975), side: sideOf(own >= other ? p : m) };
   }).sort((a, b) => b.score - a.score);
-  // Side: the side named by most of the weight of the top couples; joint: lateral joints' mean couple score.
-  const lateral = ranked.filter((r) => r.side !== 'midline');
-  let lean = 0;
-  for (const r of lateral.slice(0, TOP)) lean += (r.side === 'left' ? 1 : -1) * r.score;
-  const side: 'left' | 'right' = lean >= 0 ? 'left' : 'right';
+  // Joint: the lateral joint group whose couples score highest on average.
   const sums: Record<JointGroup, { s: number; k: number }> = { hip: { s: 0, k: 0 }, knee: { s: 0, k: 0 }, ankle: { s: 0, k: 0 }, 'shoulder/arm': { s: 0, k: 0 } };
   couples.forEach((p, k) => {
     const groups = new Set<JointGroup>();
@@ -194,6 +201,14 @@ export function couplingAsymmetry(f: TakeFactors, norms: CouplingNorms, options:
   });
   const joints = Object.fromEntries(Object.entries(sums).map(([g, v]) => [g, v.k ? v.s / v.k : 0])) as Record<JointGroup, number>;
   const joint = (Object.entries(joints) as [JointGroup, number][]).sort((a, b) => b[1] - a[1])[0]![0];
+  // Side: the side whose nodes of that joint group lie farther from the cohort.
+  let lean = 0;
+  MOTION_NODES.forEach((name, n) => {
+    if (JOINT_OF[name.replace(/^[lr]_/, '')] !== joint) return;
+    if (name.startsWith('l_')) lean += nodeDev[n]!;
+    if (name.startsWith('r_')) lean -= nodeDev[n]!;
+  });
+  const side: 'left' | 'right' = lean >= 0 ? 'left' : 'right';
   const score = takeScore(scores);
   const ciLow = q(bootTake, 0.025), ciHigh = q(bootTake, 0.975);
   const top = ranked[0]!;

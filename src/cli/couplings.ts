@@ -6,7 +6,9 @@ import { couplingAsymmetry, pairName, storedCouplingNorms, type CouplingAsymmetr
 import { classicCouplings } from '../analysis/classic-couplings.js';
 import { dynamicOverCycle, takeFactors, type TakeFactors } from '../analysis/factors.js';
 import { InputError } from '../errors/index.js';
-import { analyzeGait } from '../gait/analyze.js';
+import { analyzeGait, gaitResultJson } from '../gait/analyze.js';
+import { couplingReportHtml } from '../report/coupling-html.js';
+import { writeFileAtomic } from '../util/atomic.js';
 import { DEFAULT_LOWPASS_HZ } from '../gait/input.js';
 import { defaultModelPath } from '../model/default-model.js';
 import { loadModel } from '../model/modelfile.js';
@@ -20,6 +22,7 @@ import { importOptionsFrom, withImportOptions, type ImportFlags } from './import
 interface CouplingsFlags extends ImportFlags {
   model?: string;
   json?: boolean;
+  html?: string;
 }
 
 const r3 = (v: number) => (Number.isFinite(v) ? Math.round(v * 1000) / 1000 : null);
@@ -51,6 +54,7 @@ export function register(program: Command): void {
     .argument('<take>', 'BVH file')
     .option('--model <file>', 'coupling model file (default: the shipped model)')
     .option('--json', 'print JSON: pairs, classic, asymmetry, dynamic factors over the gait cycle')
+    .option('--html <file>', 'write the coupling report (heat matrix, gait-phase factors, classic measures, ranked asymmetry)')
     .addHelpText('after', `\n${CAUTION}\n`);
   withImportOptions(cmd).action((path: string, flags: CouplingsFlags) => {
     const modelPath = flags.model ?? defaultModelPath();
@@ -67,6 +71,10 @@ export function register(program: Command): void {
     const classic = classicCouplings(gait);
     const contacts = (side: 'left' | 'right') => gait.detection.events.filter((e) => e.side === side && e.kind === 'initial_contact').map((e) => e.time);
     const cycle = dynamicOverCycle(factors, { left: contacts('left'), right: contacts('right') });
+    if (flags.html) {
+      const si = gaitResultJson(gait, { tool: 'jointloom', version: VERSION, file: path }).symmetry_index_pct as Record<string, number | null>;
+      writeFileAtomic(flags.html, couplingReportHtml({ file: path, model: modelPath, version: VERSION, factors, cycle, asymmetry: asym, classic, symmetryIndex: si }, CAUTION));
+    }
     if (flags.json) {
       const D = factors.dynamicDims, P = factors.pairs;
       emit(JSON.stringify({

@@ -9,7 +9,7 @@ import { displayStride, displayMatrix } from '../../src/view/display.js';
 import { hostHeaderAllowed, loopbackHost, originOf } from '../../src/view/host.js';
 import { pairDistanceSpread } from '../../src/view/pairs.js';
 import { UsageError } from '../../src/errors/index.js';
-import { VIRIDIS_STOPS, viridis } from '../../viewer/src/viridis.js';
+import { VIRIDIS_STOPS, viridis } from '../../src/report/viridis.js';
 import { Playback } from '../../viewer/src/playback.js';
 import { actionOf } from '../../viewer/src/keys.js';
 import { pairPasses } from '../../viewer/src/pairlines-filter.js';

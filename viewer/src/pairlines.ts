@@ -6,7 +6,7 @@ import { LineMaterial } from 'three/addons/lines/LineMaterial.js';
 import { LineSegments2 } from 'three/addons/lines/LineSegments2.js';
 import { LineSegmentsGeometry } from 'three/addons/lines/LineSegmentsGeometry.js';
 import type { ViewPairs } from '../../src/view/types.js';
-import { viridis } from './viridis.js';
+import { viridis } from '../../src/report/viridis.js';
 import { pairPasses, type PairFilter } from './pairlines-filter.js';
 
 export type { PairFilter };

@@ -1,0 +1,65 @@
+// `jointloom couplings`: the JSON shape the issue names (pairs with role names, classic measures,
+// asymmetry with ranked couples and intervals), the HTML report with its caution and sections, and
+// one-line errors for a missing take or a corrupt model.
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { afterAll, describe, expect, it } from 'vitest';
+import { runCli } from './run.js';
+
+const ROOT = fileURLToPath(new URL('../..', import.meta.url));
+// S02-1 of the fictional clinic: a stiffer right knee (demo-takes/S02-1-walk.json).
+const TAKE = join(ROOT, 'demo-takes', 'S02-1-walk.bvh');
+const work = mkdtempSync(join(tmpdir(), 'jointloom-couplings-'));
+afterAll(() => rmSync(work, { recursive: true, force: true }));
+
+describe('jointloom couplings', () => {
+  it('prints pairs named by role, the classic measures and the ranked asymmetry as JSON', async () => {
+    const r = await runCli(['couplings', TAKE, '--json']);
+    expect(r.code, r.stderr).toBe(0);
+    const j = JSON.parse(r.stdout);
+    // 17 nodes: 17 · 16 = 272 ordered pairs (hand-computed), four static dimensions each (the default model).
+    expect(j.pairs).toHaveLength(272);
+    expect(j.pairs[0]).toMatchObject({ a: 'pelvis', b: 'thorax' });
+    expect(j.pairs[0].static_mean).toHaveLength(4);
+    expect(j.pairs[0].static_sd).toHaveLength(4);
+    expect(j.classic.pairs.map((p: { name: string }) => p.name)).toEqual(expect.arrayContaining(['hip-knee', 'knee-ankle', 'arm-leg']));
+    const a = j.asymmetry;
+    expect(['left', 'right']).toContain(a.side);
+    expect(['hip', 'knee', 'ankle', 'shoulder/arm']).toContain(a.joint);
+    // Every mirror couple once: (272 − 6 midline pairs) / 2 = 133.
+    expect(a.ranked).toHaveLength(133);
+    for (const x of a.ranked.slice(0, 10)) {
+      expect(x.pair).toMatch(/^[a-z_]+→[a-z_]+$/);
+      expect(x.ci_low).toBeLessThanOrEqual(x.ci_high);
+    }
+    expect(a.ranked[0].score).toBeGreaterThanOrEqual(a.ranked[1].score);
+    expect(a.summary).toMatch(/Coupling asymmetry/);
+    expect(j.dynamic_over_cycle.bins).toBe(20);
+    expect(j.caution).toMatch(/not a diagnostic device/);
+  });
+
+  it('writes the HTML report with the caution, the heat matrix and the ranked table', async () => {
+    const html = join(work, 'couplings.html');
+    const r = await runCli(['couplings', TAKE, '--html', html]);
+    expect(r.code, r.stderr).toBe(0);
+    const text = readFileSync(html, 'utf8');
+    expect(text).toContain('not a diagnostic device');
+    expect(text).toContain('Static coupling, sender (row) → receiver (column)');
+    expect(text).toContain('Gait-phase factors of');
+    expect(text).toContain('Continuous relative phase, hip-knee');
+    expect(text).toContain('side farther from the cohort');
+    // Self-contained: no external resource.
+    expect(text).not.toMatch(/(src|href)="https?:/);
+  });
+
+  it('refuses a corrupt model with one line naming the file', async () => {
+    const bad = join(work, 'bad.json');
+    writeFileSync(bad, '{"format":');
+    const r = await runCli(['couplings', TAKE, '--model', bad]);
+    expect(r.code).toBe(1);
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+    expect(r.stderr).toContain(bad);
+  });
+});
