@@ -1,5 +1,6 @@
 // `jointloom view <take>`: replay a take in the browser, served on the loopback interface until Ctrl-C.
 import type { Command } from 'commander';
+import { defaultModelPath } from '../model/default-model.js';
 import { loadModel } from '../model/modelfile.js';
 import { importTake } from '../skeleton/import.js';
 import { buildViewData } from '../view/data.js';
@@ -12,7 +13,7 @@ import { VERSION, newCommand, numberOption } from './program.js';
 import { importOptionsFrom, withImportOptions, type ImportFlags } from './import-options.js';
 
 interface ViewFlags extends ImportFlags {
-  model?: string;
+  model?: string | false;
   port: number;
   host: string;
 }
@@ -20,15 +21,17 @@ interface ViewFlags extends ImportFlags {
 /** Registers `view` on the program. */
 export function register(program: Command): void {
   const cmd = newCommand('view')
-    .description('replay a take in the browser: skeleton, playback, gait events on the timeline, the gait summary and, with --model, the forecast of the next second from the current time (served on 127.0.0.1 only; stop with Ctrl-C)')
+    .description('replay a take in the browser: skeleton, playback, gait events on the timeline, the gait summary and, with the coupling model (the shipped one unless --model or --no-model), the forecast of the next second from the current time, the factor heat on the pair lines and the ranked coupling asymmetry (served on 127.0.0.1 only; stop with Ctrl-C)')
     .argument('<take>', 'BVH file to show')
-    .option('--model <file>', 'coupling model file from `jointloom fit`: draws its forecast over the take (without it the forecast is off)')
+    .option('--model <file>', 'coupling model file from `jointloom fit` (default: the shipped model)')
+    .option('--no-model', 'no model: forecast and factor heat off')
     .option('--port <n>', 'port to listen on (0: a free port)', numberOption(0, 65535, true), 0)
     .option('--host <address>', 'loopback address to listen on: 127.0.0.1, another 127.x.x.x, or ::1', '127.0.0.1');
   withImportOptions(cmd).action(async (path: string, flags: ViewFlags) => {
     const host = loopbackHost(flags.host);
     const imported = importTake(path, importOptionsFrom(flags));
-    const forecast = flags.model ? new ForecastService(imported, loadModel(flags.model), flags.model) : null;
+    const modelPath = flags.model === false ? null : flags.model ?? defaultModelPath();
+    const forecast = modelPath ? new ForecastService(imported, loadModel(modelPath), modelPath) : null;
     const data = buildViewData(imported, { version: VERSION, caution: CAUTION });
     const server = await startViewServer({ staticRoot: viewerRoot(), data, host, port: flags.port, forecast });
     for (const w of imported.warnings) process.stderr.write(`jointloom: warning: ${w}\n`);

@@ -94,7 +94,7 @@ function start(data: LoadedTake): void {
   const initialPairs = pairs && pairs.pairs.length ? pairs : factors ? heatPairs(factors, 'static') : null;
   const pairLines = initialPairs ? new PairLines(initialPairs, positions, take.joints.length) : null;
   if (pairLines) stage.scene.add(pairLines.lines);
-  renderAsymmetry($('asymmetry-panel'), factors, 'no model given: start the viewer with --model FILE (or the shipped model) for the coupling factors');
+  renderAsymmetry($('asymmetry-panel'), factors, 'no model: started with --no-model');
   const legendFor = (vp: NonNullable<typeof initialPairs>, source: HeatSource) => {
     $('legend-title').textContent = `${vp.measure} (${vp.unit})`;
     $('legend-min').textContent = vp.min.toFixed(vp.max - vp.min < 1 ? 2 : 1);
@@ -146,7 +146,7 @@ function start(data: LoadedTake): void {
   forecastBox.disabled = !forecast;
   if (!forecast) {
     $('forecast-label').textContent = 'no model given: forecast off';
-    $('forecast-label').title = 'start the viewer with --model FILE to draw the forecast';
+    $('forecast-label').title = 'start the viewer without --no-model (or with --model FILE) to draw the forecast';
     renderForecastPanel(forecastPanel, null, { kind: 'off' });
   }
   const setForecast = (on: boolean) => {
