@@ -74,6 +74,76 @@ export function strideForecast(positions: Float64Array, nodeCount: number, rate:
   return P;
 }
 
+/** Steps of recent motion a past stride is matched on (about 0.13 s at 30 Hz) and the lag search step. */
+const MATCH_STEPS = 4;
+const LAG_STEP = 0.25;
+
+/** Returns the squared mismatch of pelvis-relative poses over the last `k` steps up to `end` and the same steps `lag` earlier. */
+function lagMismatch(positions: Float64Array, nodeCount: number, end: number, lag: number, k: number, a: Float64Array, b: Float64Array): number {
+  let e = 0;
+  for (let t = end - k + 1; t <= end; t++) {
+    at(positions, nodeCount, t - lag, 0, b, 0);
+    for (let n = 1; n < nodeCount; n++) {
+      at(positions, nodeCount, t - lag, n, a, 0);
+      for (let c = 0; c < 3; c++) {
+        const cur = positions[(t * nodeCount + n) * 3 + c]! - positions[t * nodeCount * 3 + c]!;
+        e += (cur - (a[c]! - b[c]!)) ** 2;
+      }
+    }
+  }
+  return e;
+}
+
+/**
+ * Writes the phase-registered stride mean into out [horizon × nodes × 3] and returns the stride period:
+ * like strideForecast, but each of the last `strides` strides is taken at the lag (within ±20 % of m
+ * periods, in quarter steps) whose pelvis-relative poses best match the last few observed steps, so a
+ * stride that came early or late (step times drift like a random walk) is aligned on the current phase
+ * rather than on whole periods. Reads nothing after `end`; falls back to constant velocity without a period.
+ */
+export function registeredStrideForecast(positions: Float64Array, nodeCount: number, rate: number, end: number, horizon: number, strides: number, out: Float64Array): number {
+  const P = stridePeriodAt(positions, nodeCount, rate, end);
+  if (!Number.isFinite(P) || end - P - MATCH_STEPS - 1 < 0) { constantVelocity(positions, nodeCount, end, horizon, out); return NaN; }
+  const a = new Float64Array(3), b = new Float64Array(3), lags: number[] = [];
+  for (let m = 1; m <= strides; m++) {
+    const centre = m * P;
+    if (end - centre * 1.2 - MATCH_STEPS - 1 < 0) break;
+    let best = centre, bestE = Infinity;
+    for (let lag = centre - 0.2 * P; lag <= centre + 0.2 * P; lag += LAG_STEP) {
+      const e = lagMismatch(positions, nodeCount, end, lag, MATCH_STEPS, a, b);
+      if (e < bestE) { bestE = e; best = lag; }
+    }
+    lags.push(best);
+  }
+  if (lags.length === 0) lags.push(P);
+  const tmp = new Float64Array(3), pel = new Float64Array(3), W = nodeCount * 3;
+  for (let k = 0; k < horizon; k++) {
+    const s = end + 1 + k;
+    for (let n = 0; n < nodeCount; n++) {
+      let x = 0, y = 0, z = 0;
+      for (const lag of lags) {
+        const src = s - lag;
+        if (src <= end) at(positions, nodeCount, src, n, tmp, 0);
+        else {
+          // A source inside the horizon: the forecast made so far (linear blend), as strideForecast does.
+          const i = Math.floor(src - end - 1), w = src - end - 1 - i;
+          for (let c = 0; c < 3; c++) {
+            const lo = i >= 0 ? out[(i * nodeCount + n) * 3 + c]! : positions[(end * nodeCount + n) * 3 + c]!;
+            tmp[c] = lo * (1 - w) + out[((i + 1) * nodeCount + n) * 3 + c]! * w;
+          }
+        }
+        at(positions, nodeCount, end - lag, 0, pel, 0);
+        x += tmp[0]! + positions[end * W]! - pel[0]!;
+        y += tmp[1]! + positions[end * W + 1]! - pel[1]!;
+        z += tmp[2]!;
+      }
+      const o = (k * nodeCount + n) * 3;
+      out[o] = x / lags.length; out[o + 1] = y / lags.length; out[o + 2] = z / lags.length;
+    }
+  }
+  return P;
+}
+
 /** Writes the named baseline's forecast into out [horizon × nodes × 3]. */
 export function baselineForecast(name: BaselineName, positions: Float64Array, nodeCount: number, rate: number, end: number, horizon: number, out: Float64Array): Float64Array {
   switch (name) {

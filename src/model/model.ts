@@ -7,7 +7,7 @@ import { STATE_SIZE } from '../motion/reflect.js';
 import { createGru, type GruParams } from '../nn/gru.js';
 import { ParamStore, type Param } from '../nn/params.js';
 import { Pcg32 } from '../nn/prng.js';
-import { strideForecast } from './baselines.js';
+import { registeredStrideForecast, strideForecast } from './baselines.js';
 import { resolveModelConfig, type ModelConfig } from './config.js';
 
 /** Encoder input width per node: state 6 plus the node one-hot. */
@@ -146,7 +146,7 @@ export function stridePriorSteps(c: ModelConfig, stats: MotionStats, history: Ar
   const N = c.nodes, H = historySteps, F = c.forecast, W = N * STATE_SIZE;
   const { forecast: fut, state, last } = scratch;
   const pos = historyPositions(c, history, H, scratch);
-  strideForecast(pos, N, c.rate, H - 1, F, 3, fut);
+  (c.priorRegistration ? registeredStrideForecast : strideForecast)(pos, N, c.rate, H - 1, F, 3, fut);
   for (let k = 0; k < F; k++)
     for (let n = 0; n < N; n++)
       for (let a = 0; a < 3; a++) {
@@ -185,7 +185,7 @@ export function strideReconSteps(c: ModelConfig, stats: MotionStats, history: Ar
   const st = state.subarray(0, W);
   for (let q = 0; q < R; q++) {
     const t = H - 1 - R + q;
-    strideForecast(pos, N, c.rate, t, 1, 3, one);
+    (c.priorRegistration ? registeredStrideForecast : strideForecast)(pos, N, c.rate, t, 1, 3, one);
     for (let n = 0; n < N; n++)
       for (let a = 0; a < 3; a++) {
         const p = one[n * 3 + a]!, o = n * STATE_SIZE + a;

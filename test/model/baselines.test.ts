@@ -1,6 +1,6 @@
 // Forecast baselines on signals whose future is known by construction (hand-computed cases).
 import { describe, expect, it } from 'vitest';
-import { baselineForecast, constantVelocity, strideForecast, zeroMotion } from '../../src/model/baselines.js';
+import { baselineForecast, constantVelocity, registeredStrideForecast, strideForecast, zeroMotion } from '../../src/model/baselines.js';
 import { bandCoverage, horizonStep, meanJointError } from '../../src/model/metrics.js';
 import { stridePeriodAt } from '../../src/model/period.js';
 
@@ -66,4 +66,42 @@ describe('forecast baselines', () => {
     expect(cover(95)).toBe(1);
     expect(cover(96)).toBe(0);
   });
+
+  it('the registered stride mean forecasts a periodic walk like the stride mean, and reads nothing after the end', () => {
+    // Period 1.0 s at 30 Hz = 30 steps exactly, so whole-period lags match perfectly (hand-computed).
+    const rate = 30, N = 4, H = 30, end = 150;
+    const p = periodicWalk(220, N, rate, 1.3, 1.0);
+    const a = new Float64Array(H * N * 3), b = new Float64Array(H * N * 3);
+    registeredStrideForecast(p, N, rate, end, H, 3, a);
+    const truth = p.subarray((end + 1) * N * 3, (end + 1 + H) * N * 3);
+    for (let k = 0; k < H; k++) expect(meanJointError(a, truth, N, k)).toBeLessThan(2e-3);
+    // The same from a copy cut right after the end.
+    registeredStrideForecast(p.slice(0, (end + 1) * N * 3), N, rate, end, H, 3, b);
+    expect(Array.from(b)).toEqual(Array.from(a));
+  });
+
+  it('the registered stride mean follows a walk whose last strides came late, where whole periods do not', () => {
+    // A periodic walk whose phase slipped by 0.15 period (inside the ±20 % the lag search covers) 50 steps
+    // before the end: the last strides are late against the ones before them. Matching the last steps finds the slipped lag; whole periods
+    // take the past stride at the wrong phase (constructed case: the slip is known).
+    const rate = 30, N = 4, H = 30, end = 150, P = 1.0;
+    const p = new Float64Array(220 * N * 3);
+    const base = periodicWalk(260, N, rate, 1.3, P);
+    // Step t of the slipped walk is step t − 4.5 of the periodic one after step 100 (time shift 0.15 s).
+    for (let t = 0; t < 220; t++) {
+      const src = t < 100 ? t : t - 4.5;
+      const i = Math.floor(src), w = src - i;
+      for (let c = 0; c < N * 3; c++) p[t * N * 3 + c] = base[i * N * 3 + c]! * (1 - w) + base[(i + 1) * N * 3 + c]! * w;
+    }
+    const truth = p.subarray((end + 1) * N * 3, (end + 1 + H) * N * 3);
+    const reg = new Float64Array(H * N * 3), plain = new Float64Array(H * N * 3);
+    registeredStrideForecast(p, N, rate, end, H, 3, reg);
+    strideForecast(p, N, rate, end, H, 3, plain);
+    let er = 0, ep = 0;
+    for (let k = 0; k < H; k++) { er += meanJointError(reg, truth, N, k); ep += meanJointError(plain, truth, N, k); }
+    // Measured: 1.28 against 1.50 (summed over the horizon, m): the second stride back straddles the
+    // slip, so part of it is mismatched either way.
+    expect(er).toBeLessThan(0.9 * ep);
+  });
 });
+

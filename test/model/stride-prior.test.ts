@@ -5,9 +5,9 @@
 // baseline (rollout and teacher-forced steps); a take cut right after the observed part gives the same
 // forecast bit for bit; and the option is the default without changing configurations stored before it.
 import { describe, expect, it } from 'vitest';
-import { strideForecast } from '../../src/model/baselines.js';
+import { registeredStrideForecast, strideForecast } from '../../src/model/baselines.js';
 import { BatchBuilder, type TrainingTake } from '../../src/model/batch.js';
-import { resolveModelConfig } from '../../src/model/config.js';
+import { modelWindowOptions, resolveModelConfig } from '../../src/model/config.js';
 import { forecast } from '../../src/model/forecast.js';
 import { createModel, type CouplingModel } from '../../src/model/model.js';
 import { statsOfTakes } from '../../src/model/train.js';
@@ -106,6 +106,32 @@ describe('stride prior', () => {
       for (let i = 0; i < W; i++) worst = Math.max(worst, Math.abs(batch.priorRecon![(q * 2) * W + i]! - (framed[i]! - cur[i]!)));
       expect(worst).toBeLessThan(1e-4);
     }
+  });
+
+  it('with the default configuration forecasts the registered stride mean of the 5-s history, mirrored or not', () => {
+    // The default: priorHistory 150 steps and priorRegistration on; the prior reads steps e − 149 … e.
+    const c = resolveModelConfig({});
+    const longTake = synthTrainingTake(22, 16);
+    const tr = longTake.track, n = tr.nodeCount;
+    const model = createModel(c, statsOfTakes([longTake], c), { seed: 4 });
+    model.params.upW2.value.fill(0);
+    model.params.upB2.value.fill(0);
+    for (const e of [200, 320]) {
+      const pos = tr.positions.slice((e - 149) * n * 3, (e + 1) * n * 3), want = new Float64Array(c.forecast * n * 3);
+      registeredStrideForecast(pos, n, tr.rate, 149, c.forecast, 3, want);
+      const win = makeWindow(tr, e, modelWindowOptions(c));
+      expect(win.historySteps).toBe(150);
+      for (const w of [win, mirrorWindow(win, tr.nodeMirror)]) {
+        const r = forecast(model, w, { samples: 2, seed: 1 });
+        let worst = 0;
+        for (let i = 0; i < want.length; i++) worst = Math.max(worst, Math.abs(r.mean[i]! - want[i]!));
+        expect(worst).toBeLessThan(1e-4);
+      }
+    }
+    // Older files: a stored stride prior without the newer fields reads only the observed part, unregistered.
+    const old = resolveModelConfig({ stridePrior: true });
+    expect(old.priorHistory).toBe(old.observe);
+    expect(old.priorRegistration).toBe(false);
   });
 
   it('reads nothing after the observed part: a take cut right after it gives the same forecast bit for bit', () => {
