@@ -9,15 +9,17 @@ import { pairIndex } from '../motion/roles.js';
 import type { Track } from '../motion/track.js';
 import type { ViewFactorPair, ViewFactors } from './types.js';
 
-/** Seconds between the windows read for the heat. */
+/** Seconds between the windows read for the heat, and the most windows read (long takes space them out). */
 export const FACTOR_EVERY_S = 0.2;
+export const FACTOR_MOST_WINDOWS = 300;
 
 const r4 = (v: number) => Math.round(v * 1e4) / 1e4;
 
 /** Returns the factor heat of a track; `nodeJoints[i][0]` is the display joint node i is drawn at. */
 export function viewFactors(track: Track, loaded: LoadedModel, nodeJoints: readonly [number, number][]): ViewFactors {
   const model = loaded.model, c = model.config, N = c.nodes;
-  const f = takeFactors(model, track, { everyS: FACTOR_EVERY_S });
+  const everyS = Math.max(FACTOR_EVERY_S, track.steps / track.rate / FACTOR_MOST_WINDOWS);
+  const f = takeFactors(model, track, { everyS });
   const S = f.staticDims, D = f.dynamicDims, W = f.windowEnds.length, P = f.pairs;
   const kl = (p: number) => {
     let s = 0;
