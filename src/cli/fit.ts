@@ -6,7 +6,10 @@ import { trackFromImported } from '../motion/track.js';
 import type { TrainingTake } from '../model/batch.js';
 import { fitPair, savePair } from '../model/pair-fit.js';
 import { takeIdentity } from '../score/identity.js';
-import { importTake } from '../skeleton/import.js';
+import { analyzeGait } from '../gait/analyze.js';
+import { DEFAULT_LOWPASS_HZ } from '../gait/input.js';
+import { causalPhase } from '../motion/phase.js';
+import { importTake, type ImportedTake } from '../skeleton/import.js';
 import { findTakes } from '../util/takes.js';
 import { emit, newCommand, numberOption } from './program.js';
 import { importOptionsFrom, withImportOptions, type ImportFlags } from './import-options.js';
@@ -48,7 +51,11 @@ export function register(program: Command): void {
     if (files.length === 0) throw new InputError(`${paths.join(', ')}: no .bvh takes found.`);
     const opts = importOptionsFrom(flags);
     const root = files.length === 1 ? dirname(files[0]!) : commonRoot(files);
-    const takes: TrainingTake[] = files.map((f) => ({ track: trackFromImported(importTake(f, opts)), subject: subjectOf(f, root), phase: null }));
+    const takes: TrainingTake[] = files.map((f) => {
+      const imported = importTake(f, opts);
+      const track = trackFromImported(imported);
+      return { track, subject: subjectOf(f, root), phase: gaitPhase(imported, track.steps, track.rate) };
+    });
     const bar = progressBar('fit', Boolean(flags.quiet || flags.json));
     let phase = 'model';
     const pair = await fitPair(takes, {
@@ -72,6 +79,20 @@ export function register(program: Command): void {
     else emit(`wrote ${flags.output}: ${files.length} takes of ${summary.subjects} subjects, ${s.epochs} epochs (best ${s.bestEpoch + 1}), held-out loss ${summary.valid_loss?.toFixed(4) ?? '-'}, ${s.msPerStep.toFixed(0)} ms a step${pair.twin ? '; no-coupling twin trained on the same budget' : ''}`);
   });
   program.addCommand(cmd);
+}
+
+/**
+ * Returns the causal left gait phase per track step from the take's detected initial contacts, for
+ * restricted labeling (the labels only; the encoder never reads them), or null without walking.
+ */
+function gaitPhase(imported: ImportedTake, steps: number, rate: number): Float64Array | null {
+  try {
+    const events = analyzeGait(imported, { lowpassHz: DEFAULT_LOWPASS_HZ, steadyOnly: false }).detection.events;
+    const contacts = events.filter((e) => e.side === 'left' && e.kind === 'initial_contact').map((e) => e.time).sort((a, b) => a - b);
+    return contacts.length >= 2 ? causalPhase(contacts, steps, rate) : null;
+  } catch {
+    return null;
+  }
 }
 
 /** Returns the deepest folder holding every file. */
