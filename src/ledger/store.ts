@@ -23,7 +23,7 @@ function upsertTake(db: Ledger, sha: string, path: string, bytes: number, id: Ta
 export function upsertModel(db: Ledger, model: ModelRef): string {
   const key = modelKey(model);
   db.prepare('INSERT INTO models (key, sha256, file, note) VALUES (?, ?, ?, ?) ON CONFLICT (key) DO NOTHING')
-    .run(key, model.file_sha256, model.file, model.file_sha256 ? 'model file given with --model (recorded; no model-based columns yet)' : 'no model: scores without model-based columns');
+    .run(key, model.file_sha256, model.file, model.file_sha256 ? 'coupling model file (forecast and coupling columns)' : 'no model: scores without model-based columns');
   return key;
 }
 

@@ -8,10 +8,11 @@ import { escapeXml } from './svg.js';
 const PALETTE = ['#3b6ea8', '#b3541e', '#0f7b74', '#7a4fa3', '#9a7b00', '#a23b5b', '#4f6b2b', '#5a6275'];
 const fx = (v: number | null | undefined, d: number) => (v === null || v === undefined || !Number.isFinite(v) ? null : v.toFixed(d));
 
-/** The asymmetry scores drawn as distributions (the coupling score joins them when it exists). */
+/** The asymmetry scores drawn as distributions. */
 const ASYMMETRY_SCORES: readonly [string, string][] = [
   ['norms.gps_overall_deg', 'Gait profile score (°)'],
   ['gait.max_abs_si_pct', 'Largest |symmetry index| (%)'],
+  ['coupling.asymmetry_score', 'Coupling asymmetry (model)'],
 ];
 
 /** The numbers followed across sessions. */
@@ -23,11 +24,11 @@ const TRENDS: readonly [string, string][] = [
 ];
 
 function takeRows(takes: readonly CohortTake[]) {
-  return takes.map((t) => [t.subject, t.session, t.date, t.path, { raw: `<code title="${escapeXml(t.sha256)}">${escapeXml(t.sha256.slice(0, 12))}</code>` },
+  return takes.map((t) => [t.subject, t.session, t.date, t.path, { raw: `<code title="${escapeXml(t.sha256)}">${escapeXml(t.sha256.slice(0, 8))}</code>` },
     fx(t.metrics['gait.cadence_steps_per_min'], 1), fx(t.metrics['gait.speed_m_per_s'], 2),
     fx(t.metrics['gait.stance_pct_left'], 1), fx(t.metrics['gait.stance_pct_right'], 1),
     fx(t.metrics['norms.gps_overall_deg'], 2), fx(t.metrics['norms.gdi_left'], 1), fx(t.metrics['norms.gdi_right'], 1),
-    fx(t.metrics['gait.max_abs_si_pct'], 1), t.flags.length]);
+    fx(t.metrics['gait.max_abs_si_pct'], 1), fx(t.metrics['coupling.asymmetry_score'], 2), fx(t.metrics['forecast.mpjpe_1s_mm'], 1), t.flags.length]);
 }
 
 /** Returns per subject the session labels in order and each metric's session mean. */
@@ -61,10 +62,10 @@ export function cohortHtml(d: CohortData, caution: string): string {
     ['Generated', d.generatedAt],
   ];
   const body: string[] = [];
-  body.push(`<style>.cohort td:nth-child(-n+5), .cohort th:nth-child(-n+5) { text-align: left; white-space: nowrap; } .cohort th, .cohort td { padding: 4px 7px; } .flagged td, .flagged th { text-align: left; }</style>`);
+  body.push(`<style>.cohort td:nth-child(-n+5), .cohort th:nth-child(-n+5) { text-align: left; white-space: nowrap; } .cohort { overflow-x: auto; } .cohort table { font-size: 13px; } .cohort th, .cohort td { padding: 3px 5px; } .flagged td, .flagged th { text-align: left; }</style>`);
   body.push('<h2>Run</h2><dl class="facts">' + facts.map(([k, v]) => `<dt>${escapeXml(k!)}</dt><dd>${escapeXml(v!)}</dd>`).join('') + '</dl>');
   body.push('<h2>Scored takes</h2><div class="cohort">' + htmlTable(
-    ['Subject', 'Session', 'Date', 'Take', 'SHA-256', 'Cadence', 'Speed (m/s)', 'Stance L %', 'Stance R %', 'GPS (°)', 'GDI L', 'GDI R', 'Max |SI| %', 'Flags'], takeRows(d.takes)) + '</div>');
+    ['Subject', 'Session', 'Date', 'Take', 'SHA-256', 'Cadence', 'Speed (m/s)', 'Stance L %', 'Stance R %', 'GPS (°)', 'GDI L', 'GDI R', 'Max |SI| %', 'Coupling asym.', 'Forecast 1 s (mm)', 'Flags'], takeRows(d.takes)) + '</div>');
   body.push('<h2>Flagged takes</h2>' + (flagged.length
     ? '<div class="flagged">' + htmlTable(['Subject', 'Session', 'Take', 'Flags'], flagged.map((t) => [t.subject, t.session, t.path, { raw: t.flags.map((f) => escapeXml(f.text)).join('<br>') }])) + '</div>'
     : '<p>No take has a paired measure beyond |symmetry index| 10 %.</p>'));

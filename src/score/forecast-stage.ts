@@ -59,7 +59,7 @@ export const FORECAST_STAGE: ScoreStage = {
         surprise_median: surprises[Math.floor(surprises.length / 2)]!,
         irregular_steps: irregular.length,
       },
-      flags: irregular.map((t) => ({ stage: 'forecast', measure: 'surprise', value: t.surprise, text: `irregular motion near ${t.time_s.toFixed(1)} s: the recorded second lies ${t.surprise.toFixed(1)}× the predicted spread from the forecast` })),
+      flags: irregular.map((t) => ({ stage: 'forecast', measure: 'surprise', value: t.surprise, text: `irregular motion near ${t.time_s.toFixed(1)} s: the recorded half second after it departs from the forecast by ${t.surprise.toFixed(1)} predicted SDs on average, far more than elsewhere in the take` })),
       detail: { model: ctx.modelFile, every_s: TIMELINE_EVERY_S, samples: TIMELINE_SAMPLES, timeline },
       usedModel: true,
     };
