@@ -14,15 +14,16 @@ export function renderAsymmetry(host: HTMLElement, factors: ViewFactors | null, 
   host.append(p);
   const table = document.createElement('table');
   table.className = 'asym';
-  table.innerHTML = '<thead><tr><th>pair</th><th>vs mirror</th><th>score</th><th>95 %</th><th>side</th></tr></thead>';
+  table.innerHTML = '<thead><tr><th>pair (against its mirror)</th><th>score</th><th>95 %</th><th>side</th></tr></thead>';
   const body = document.createElement('tbody');
   for (const r of a.ranked.slice(0, 8)) {
     const tr = document.createElement('tr');
-    for (const text of [r.pair, r.mirror, r.score.toFixed(2), `${r.ci_low.toFixed(2)}–${r.ci_high.toFixed(2)}`, r.side]) {
+    for (const text of [r.pair, r.score.toFixed(2), `${r.ci_low.toFixed(2)}–${r.ci_high.toFixed(2)}`, r.side]) {
       const td = document.createElement('td');
       td.textContent = text;
       tr.append(td);
     }
+    tr.title = `${r.pair} against ${r.mirror}`;
     body.append(tr);
   }
   table.append(body);
