@@ -2,6 +2,9 @@
 // is synthesized, imported as a user's file would be (roles, units and up axis detected from the file)
 // and turned into a model-rate track.
 import { trackFromImported, type Track } from '../src/motion/track.js';
+import { analyzeGait } from '../src/gait/analyze.js';
+import { DEFAULT_LOWPASS_HZ } from '../src/gait/input.js';
+import { causalPhase } from '../src/motion/phase.js';
 import { resolveImported } from '../src/skeleton/import.js';
 import type { CohortSubject } from '../src/synth/cohort.js';
 import { synthesizeTake, type SynthTruth } from '../src/synth/index.js';
@@ -11,10 +14,22 @@ export interface CohortTrack {
   subject: CohortSubject;
   track: Track;
   truth: SynthTruth;
+  /** Causal left gait phase per track step from the detected initial contacts (restricted labeling), or null. */
+  phase: Float64Array | null;
 }
 
 /** Returns the track of a cohort subject (file name `<id>.bvh` in messages). */
 export function cohortTrack(subject: CohortSubject): CohortTrack {
   const r = synthesizeTake(subject.options);
-  return { subject, track: trackFromImported(resolveImported(`${subject.id}.bvh`, r.take)), truth: r.truth };
+  const imported = resolveImported(`${subject.id}.bvh`, r.take);
+  const track = trackFromImported(imported);
+  let phase: Float64Array | null = null;
+  try {
+    const contacts = analyzeGait(imported, { lowpassHz: DEFAULT_LOWPASS_HZ, steadyOnly: false }).detection.events
+      .filter((e) => e.side === 'left' && e.kind === 'initial_contact').map((e) => e.time).sort((a, b) => a - b);
+    if (contacts.length >= 2) phase = causalPhase(contacts, track.steps, track.rate);
+  } catch {
+    phase = null;
+  }
+  return { subject, track, truth: r.truth, phase };
 }

@@ -37,7 +37,8 @@ const output = v.output ?? join(dirname(fileURLToPath(import.meta.url)), '..', '
 
 const t0 = performance.now();
 const cohort = trainingCohort(recipe.subjects, recipe.seconds);
-const takes: TrainingTake[] = cohort.map((s) => ({ track: cohortTrack(s).track, subject: s.id, phase: null }));
+// Each take with its causal gait phase, so restricted labeling ties two dynamic dimensions to it.
+const takes: TrainingTake[] = cohort.map((s) => { const c = cohortTrack(s); return { track: c.track, subject: s.id, phase: c.phase }; });
 if (v['norms-only']) {
   // Recompute only the normative coupling figures of an existing model file (weights untouched).
   const loaded = loadModel(output);
