@@ -170,9 +170,10 @@ export function couplingAsymmetry(f: TakeFactors, norms: CouplingNorms, options:
   }
   const q = (xs: Float64Array, p: number) => { const s = Float64Array.from(xs).sort(); return s[Math.min(s.length - 1, Math.max(0, Math.round(p * (s.length - 1))))]!; };
   // Node deviation: the mean distance from the cohort of the pairs a node belongs to (both orders).
+  const dist = Float64Array.from({ length: f.pairs }, (_, p) => distanceFromNorm(mean, p, S, norms));
   const nodeDev = new Float64Array(MOTION_NODES.length), nodeCount = new Float64Array(MOTION_NODES.length);
   for (let p = 0; p < f.pairs; p++) {
-    const d = distanceFromNorm(mean, p, S, norms);
+    const d = dist[p]!;
     for (const nIdx of [DEFAULT_PAIRS.sender[p]!, DEFAULT_PAIRS.receiver[p]!]) { nodeDev[nIdx]! += d; nodeCount[nIdx]!++; }
   }
   for (let n = 0; n < nodeDev.length; n++) nodeDev[n]! /= Math.max(1, nodeCount[n]!);
@@ -186,8 +187,7 @@ export function couplingAsymmetry(f: TakeFactors, norms: CouplingNorms, options:
   };
   const ranked: PairAsymmetry[] = couples.map((p, k) => {
     const m = DEFAULT_PAIRS.mirror[p]!;
-    const own = distanceFromNorm(mean, p, S, norms), other = distanceFromNorm(mean, m, S, norms);
-    return { pair: pairName(p), mirror: pairName(m), score: scores[k]!, ciLow: q(boot[k]!, 0.025), ciHigh: q(boot[k]!, 0.975), side: sideOf(own >= other ? p : m) };
+    return { pair: pairName(p), mirror: pairName(m), score: scores[k]!, ciLow: q(boot[k]!, 0.025), ciHigh: q(boot[k]!, 0.975), side: sideOf(dist[p]! >= dist[m]! ? p : m) };
   }).sort((a, b) => b.score - a.score);
   // Joint: the lateral joint group whose couples score highest on average.
   const sums: Record<JointGroup, { s: number; k: number }> = { hip: { s: 0, k: 0 }, knee: { s: 0, k: 0 }, ankle: { s: 0, k: 0 }, 'shoulder/arm': { s: 0, k: 0 } };

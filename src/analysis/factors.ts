@@ -72,6 +72,16 @@ export function takeFactors(model: CouplingModel, track: Track, options: TakeFac
   };
 }
 
+/** Returns the information in ordered pair p's static factors: KL of their mean posterior from the N(0, 1) prior, nats. */
+export function staticKl(f: TakeFactors, p: number): number {
+  let s = 0;
+  for (let d = 0; d < f.staticDims; d++) {
+    const m = f.staticMean[p * f.staticDims + d]!, sd = Math.max(1e-6, f.staticPosteriorSd[p * f.staticDims + d]!);
+    s += 0.5 * (m * m + sd * sd - 1 - 2 * Math.log(sd));
+  }
+  return s;
+}
+
 /** Returns the gait-cycle fraction (0..1) at time t from sorted initial-contact times, or NaN outside a cycle. */
 export function cycleFraction(contacts: readonly number[], t: number): number {
   for (let i = 0; i + 1 < contacts.length; i++) {

@@ -4,7 +4,7 @@
 // indices and the caution.
 import type { ClassicCouplings } from '../analysis/classic-couplings.js';
 import type { CouplingAsymmetry } from '../analysis/coupling-asymmetry.js';
-import type { TakeFactors } from '../analysis/factors.js';
+import { staticKl, type TakeFactors } from '../analysis/factors.js';
 import { DEFAULT_PAIRS, MOTION_NODES, pairIndex } from '../motion/roles.js';
 import { htmlPage, htmlTable } from './html.js';
 import { SIDE_STYLE } from './gait-html.js';
@@ -23,16 +23,6 @@ export interface CouplingReportData {
   classic: ClassicCouplings;
   /** Classic symmetry indices of the gait parameters, %, by measure. */
   symmetryIndex: Record<string, number | null>;
-}
-
-/** Returns the static coupling of ordered pair p: KL of its static posterior from the prior, nats. */
-function staticKl(f: TakeFactors, p: number): number {
-  let s = 0;
-  for (let d = 0; d < f.staticDims; d++) {
-    const m = f.staticMean[p * f.staticDims + d]!, sd = Math.max(1e-6, f.staticPosteriorSd[p * f.staticDims + d]!);
-    s += 0.5 * (m * m + sd * sd - 1 - 2 * Math.log(sd));
-  }
-  return s;
 }
 
 /** Returns the SVG heat matrix of static coupling (row: sender, column: receiver). */

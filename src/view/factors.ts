@@ -3,7 +3,7 @@
 // window (size of the dynamic factors), with the ranked coupling asymmetry when the model holds
 // normative figures. Computed once, on the first request.
 import { couplingAsymmetry, storedCouplingNorms } from '../analysis/coupling-asymmetry.js';
-import { takeFactors } from '../analysis/factors.js';
+import { staticKl, takeFactors } from '../analysis/factors.js';
 import type { LoadedModel } from '../model/modelfile.js';
 import { pairIndex } from '../motion/roles.js';
 import type { Track } from '../motion/track.js';
@@ -21,14 +21,7 @@ export function viewFactors(track: Track, loaded: LoadedModel, nodeJoints: reado
   const everyS = Math.max(FACTOR_EVERY_S, track.steps / track.rate / FACTOR_MOST_WINDOWS);
   const f = takeFactors(model, track, { everyS });
   const S = f.staticDims, D = f.dynamicDims, W = f.windowEnds.length, P = f.pairs;
-  const kl = (p: number) => {
-    let s = 0;
-    for (let d = 0; d < S; d++) {
-      const m = f.staticMean[p * S + d]!, sd = Math.max(1e-6, f.staticPosteriorSd[p * S + d]!);
-      s += 0.5 * (m * m + sd * sd - 1 - 2 * Math.log(sd));
-    }
-    return s;
-  };
+  const kl = (p: number) => staticKl(f, p);
   const size = (w: number, p: number) => {
     let s = 0;
     for (let d = 0; d < D; d++) s += f.dynamicSeries[(w * P + p) * D + d]! ** 2;
