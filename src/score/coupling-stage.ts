@@ -3,8 +3,7 @@
 // when its score lies above the controls' 90th percentile. Skipped without a model or without figures.
 import { couplingAsymmetry, storedCouplingNorms } from '../analysis/coupling-asymmetry.js';
 import { takeFactors } from '../analysis/factors.js';
-import { trackFromImported } from '../motion/track.js';
-import { cachedModel } from './model-cache.js';
+import { cachedModel, modelTrack } from './model-cache.js';
 import type { ScoreStage, StageResult } from './stages.js';
 
 const METRICS = ['asymmetry_score', 'asymmetry_ci_low', 'asymmetry_ci_high', 'side_right', 'control_p90'] as const;
@@ -20,7 +19,7 @@ export const COUPLING_STAGE: ScoreStage = {
     const loaded = cachedModel(ctx.modelFile), model = loaded.model, c = model.config;
     const norms = storedCouplingNorms(loaded.extras, c.nodes * (c.nodes - 1), c.staticDims);
     if (!norms) return { metrics: empty(), detail: { model: ctx.modelFile }, warnings: [`${ctx.modelFile} holds no normative coupling figures; no coupling asymmetry was scored`] };
-    const track = trackFromImported(ctx.imported, { rate: c.rate });
+    const track = modelTrack(ctx, c.rate);
     if (track.steps <= c.observe) return { metrics: empty(), usedModel: true, detail: { model: ctx.modelFile }, warnings: [`the take is too short for coupling factors (it needs more than ${(c.observe / c.rate).toFixed(1)} s)`] };
     const a = couplingAsymmetry(takeFactors(model, track), norms);
     const flagged = a.score > norms.controlScoreP90;

@@ -3,8 +3,7 @@
 // (default 8); the take's steps whose recorded motion falls far outside the predicted spread are flagged
 // as irregular (evaluate.ts: above median + 4 MAD of the take's own timeline). Skipped without a model.
 import { createEvaluator, flagSurprises, forecastAt, type Evaluator } from '../model/evaluate.js';
-import { cachedModel } from './model-cache.js';
-import { trackFromImported } from '../motion/track.js';
+import { cachedModel, modelTrack } from './model-cache.js';
 import type { ScoreStage, StageResult } from './stages.js';
 
 /** Seconds between forecasts and samples per forecast of the batch timeline. */
@@ -35,7 +34,7 @@ export const FORECAST_STAGE: ScoreStage = {
     if (!ctx.modelFile) return { metrics: empty(), detail: { model: null } };
     const ev = evaluatorOf(ctx.modelFile);
     const c = ev.models.model.config;
-    const track = trackFromImported(ctx.imported, { rate: c.rate });
+    const track = modelTrack(ctx, c.rate);
     const step = Math.max(1, Math.round(TIMELINE_EVERY_S * track.rate));
     const first = c.stridePrior ? Math.min(c.priorHistory, Math.max(c.observe, track.steps - c.forecast - 1)) : c.observe;
     const points = [];

@@ -1,5 +1,8 @@
-// Model files read once per process: batch workers score many takes with one model.
+// Model files read once per process (batch workers score many takes with one model), and the take's
+// model-rate track built once per take for the model-based stages.
 import { loadModel, type LoadedModel } from '../model/modelfile.js';
+import { trackFromImported, type Track } from '../motion/track.js';
+import type { StageContext } from './stages.js';
 
 const cache = new Map<string, LoadedModel>();
 
@@ -8,4 +11,10 @@ export function cachedModel(path: string): LoadedModel {
   let m = cache.get(path);
   if (!m) { m = loadModel(path); cache.set(path, m); }
   return m;
+}
+
+/** Returns the take's track at `rate`, built on first use and shared by the stages after it. */
+export function modelTrack(ctx: StageContext, rate: number): Track {
+  if (!ctx.track || ctx.track.rate !== rate) ctx.track = trackFromImported(ctx.imported, { rate });
+  return ctx.track;
 }

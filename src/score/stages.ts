@@ -4,6 +4,7 @@
 import { analyzeGait, gaitResultJson, type GaitAnalysis } from '../gait/analyze.js';
 import type { NormsFile } from '../norms/format.js';
 import { scoreAgainstNorms } from '../norms/score.js';
+import type { Track } from '../motion/track.js';
 import type { ImportedTake } from '../skeleton/import.js';
 import { COUPLING_STAGE } from './coupling-stage.js';
 import { FORECAST_STAGE } from './forecast-stage.js';
@@ -19,6 +20,8 @@ export interface StageContext {
   modelFile: string | null;
   gait?: GaitAnalysis;
   gaitJson?: Record<string, unknown>;
+  /** The take as a model-rate track, built once for the model-based stages (model-cache.ts modelTrack). */
+  track?: Track;
 }
 
 /** The output of one stage. */
