@@ -10,7 +10,7 @@ import { parseArgs } from 'node:util';
 import { defaultModelPath } from '../src/model/default-model.js';
 import { modelWindowOptions } from '../src/model/config.js';
 import { createEvaluator, flagSurprises, forecastAt, type Evaluator, type MethodName } from '../src/model/evaluate.js';
-import { createFactorReader, windowFactors } from '../src/model/factors.js';
+import { takeFactors } from '../src/analysis/factors.js';
 import { forecast, createForecaster } from '../src/model/forecast.js';
 import { HORIZONS_S, horizonStep, meanJointError } from '../src/model/metrics.js';
 import { loadModel } from '../src/model/modelfile.js';
@@ -78,18 +78,12 @@ const ratio = (key: string) => {
 // 2. Informativeness: each take forecast with its own static factors (its windows' mean) and with those of
 // the next take in the cohort (another subject), over the same windows; 1-s errors compared.
 const h1 = Math.min(F - 1, horizonStep(1, c.rate));
-const fc = createForecaster(model, samples), reader = createFactorReader(model);
+const fc = createForecaster(model, samples);
 const scoredTakes = cohort.filter((ct) => ct.subject.group !== 'stumble');
+// A take's static factors: the mean over its windows (one every `everyS`), with the mean posterior SD.
 const takeStatic = scoredTakes.map((ct) => {
-  const list = ends(ct.track, everyS);
-  let mean: Float64Array | null = null, logVar: Float64Array | null = null;
-  for (const e of list) {
-    const f = windowFactors(model, makeWindow(ct.track, e, modelWindowOptions(c)), reader);
-    mean ??= new Float64Array(f.staticMean.length);
-    logVar ??= new Float64Array(f.staticMean.length);
-    for (let i = 0; i < f.staticMean.length; i++) { mean[i]! += f.staticMean[i]! / list.length; logVar[i]! += (2 * Math.log(f.staticSd[i]!)) / list.length; }
-  }
-  return { mean: mean!, logVar: logVar! };
+  const f = takeFactors(model, ct.track, { everyS });
+  return { mean: f.staticMean, logVar: Float64Array.from(f.staticPosteriorSd, (sd) => 2 * Math.log(sd)) };
 });
 let ownErr = 0, swapErr = 0, swapCount = 0;
 scoredTakes.forEach((ct, i) => {

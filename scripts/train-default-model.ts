@@ -14,7 +14,8 @@ import type { TrainingTake } from '../src/model/batch.js';
 import { loadModel, saveModel } from '../src/model/modelfile.js';
 import { fitPair, savePair } from '../src/model/pair-fit.js';
 import { trainingCohort } from '../src/synth/cohort.js';
-import { COUPLING_NORMS_KEY, couplingNorms } from '../src/analysis/coupling-asymmetry.js';
+import { COUPLING_NORMS_KEY, couplingNorms, type CouplingNorms } from '../src/analysis/coupling-asymmetry.js';
+import type { CouplingModel } from '../src/model/model.js';
 import { takeFactors } from '../src/analysis/factors.js';
 import { cohortTrack } from './model-cohort.js';
 
@@ -39,10 +40,14 @@ const t0 = performance.now();
 const cohort = trainingCohort(recipe.subjects, recipe.seconds);
 // Each take with its causal gait phase, so restricted labeling ties two dynamic dimensions to it.
 const takes: TrainingTake[] = cohort.map((s) => { const c = cohortTrack(s); return { track: c.track, subject: s.id, phase: c.phase }; });
+/** Returns the normative coupling figures of the cohort's normal walkers under a model. */
+function cohortNorms(model: CouplingModel): CouplingNorms {
+  return couplingNorms(takes.filter((_, i) => cohort[i]!.group === 'normal').map((t) => takeFactors(model, t.track)));
+}
 if (v['norms-only']) {
   // Recompute only the normative coupling figures of an existing model file (weights untouched).
   const loaded = loadModel(output);
-  const n = couplingNorms(takes.filter((_, i) => cohort[i]!.group === 'normal').map((t) => takeFactors(loaded.model, t.track)));
+  const n = cohortNorms(loaded.model);
   saveModel(output, loaded.model, loaded.training, { ...loaded.extras, [COUPLING_NORMS_KEY]: n });
   console.log(`${output}: normative coupling figures from ${n.subjects} normal walkers (control take scores median ${n.controlScoreP50.toFixed(2)}, 90th percentile ${n.controlScoreP90.toFixed(2)})`);
   process.exit(0);
@@ -58,8 +63,7 @@ const pair = await fitPair(takes, {
 });
 bar.stop();
 // Normative coupling figures from the cohort's normal walkers (issue: asymmetry against a normative cohort).
-const controls = takes.filter((_, i) => cohort[i]!.group === 'normal');
-const norms = couplingNorms(controls.map((t) => takeFactors(pair.model, t.track)));
+const norms = cohortNorms(pair.model);
 savePair(output, pair, { [COUPLING_NORMS_KEY]: norms });
 const seconds = (performance.now() - t0) / 1000;
 const s = pair.summary;
