@@ -1,38 +1,8 @@
 // Types of what the viewer page exposes, for node-side code that drives it (the root tsconfig has no
 // DOM library): callbacks passed to page.evaluate cast globalThis to PageGlobals.
 
-/** Pixel counts of the last drawn frame, read back by the page (viewer/src/probe.ts). */
-export interface Probe {
-  width: number;
-  height: number;
-  nonBackground: number;
-  left: number;
-  right: number;
-  hash: number;
-}
-
-/** The page's window.__jointloomView. */
-export interface ViewHook {
-  ready: boolean;
-  error: string | null;
-  frame: number;
-  sourceFrame: number;
-  rendered: number;
-  firstFrameMs: number | null;
-  playing: boolean;
-  forecastOn: boolean;
-  forecastsReceived: number;
-  forecastTime: number | null;
-  forecastStep: number;
-  heatSource: string;
-  heatWindow: number;
-  seek(d: number): void;
-  setForecast(on: boolean): void;
-  setHeat(source: string): void;
-  setPairs(on: boolean): void;
-  setPlaying(on: boolean): void;
-  probe(): Probe;
-}
+export type { ProbeResult as Probe, ViewHook } from '../../viewer/src/hook.js';
+import type { ViewHook } from '../../viewer/src/hook.js';
 
 /** The few DOM members the tests touch. */
 export interface PageElement {

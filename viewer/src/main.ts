@@ -13,32 +13,8 @@ import { Playback, SPEEDS } from './playback.js';
 import { SkeletonView } from './skeleton.js';
 import { addGrid, createStage, placeCamera, snapGrid } from './stage.js';
 import { EventStrip } from './timeline.js';
-import { probe, type ProbeResult } from './probe.js';
-
-/** What the page exposes for tests and the bench (read-only state and two helpers). */
-interface ViewHook {
-  ready: boolean;
-  error: string | null;
-  frame: number;
-  sourceFrame: number;
-  rendered: number;
-  firstFrameMs: number | null;
-  playing: boolean;
-  /** Forecast overlay: on, forecasts received, the start time and step drawn (null and 0 when none). */
-  forecastOn: boolean;
-  forecastsReceived: number;
-  forecastTime: number | null;
-  forecastStep: number;
-  /** Pair-line colour source and the dynamic heat's current window (-1 before one is drawn). */
-  heatSource: string;
-  heatWindow: number;
-  seek(d: number): void;
-  setHeat(source: string): void;
-  setPairs(on: boolean): void;
-  setForecast(on: boolean): void;
-  setPlaying(on: boolean): void;
-  probe(): ProbeResult;
-}
+import type { ViewHook } from './hook.js';
+import { probe } from './probe.js';
 
 declare global {
   interface Window {

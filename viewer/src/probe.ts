@@ -1,15 +1,8 @@
 // Reads back the last rendered frame right after drawing it (same task, so no preserved buffer is
 // needed): how many pixels differ from the background, how many carry each side's colour, and a hash.
 import type { Color, WebGLRenderer } from 'three';
+import type { ProbeResult } from './hook.js';
 
-export interface ProbeResult {
-  width: number;
-  height: number;
-  nonBackground: number;
-  left: number;
-  right: number;
-  hash: number;
-}
 
 /** Returns pixel counts and an FNV-1a hash of the renderer's current drawing buffer. */
 export function probe(renderer: WebGLRenderer, background: Color): ProbeResult {
