@@ -1,8 +1,8 @@
 // The forecast overlay: the model's mean forecast as a violet skeleton of its 17 nodes outlined in white,
-// and every sample as a faint thin violet skeleton; one forecast step at a time, written into existing
+// and every sample as a faint one-pixel violet skeleton; one forecast step at a time, written into existing
 // buffers (no allocation per frame). The mean is drawn over the recorded skeleton (no depth test), so
 // its white outline cuts the recorded bones where the two cross and the forecast always reads whole.
-import { Group, InstancedMesh, type InterleavedBufferAttribute, MeshLambertMaterial, SphereGeometry } from 'three';
+import { BufferAttribute, BufferGeometry, Group, InstancedMesh, type InterleavedBufferAttribute, LineBasicMaterial, LineSegments, MeshLambertMaterial, SphereGeometry } from 'three';
 import { LineMaterial } from 'three/addons/lines/LineMaterial.js';
 import { LineSegments2 } from 'three/addons/lines/LineSegments2.js';
 import { LineSegmentsGeometry } from 'three/addons/lines/LineSegmentsGeometry.js';
@@ -40,7 +40,9 @@ export class ForecastView {
   readonly group = new Group();
   private readonly outline: Lines;
   private readonly mean: Lines;
-  private readonly spread: Lines;
+  // Samples as plain 1-px GL lines: screen-space wide lines cost several times as much per segment in a
+  // software renderer, and the faint samples gain nothing from width.
+  private readonly spread: { lines: LineSegments; buffer: Float32Array; attr: BufferAttribute };
   private readonly joints: InstancedMesh;
   private readonly ends: Int32Array;
   private data: ViewForecast | null = null;
@@ -54,8 +56,13 @@ export class ForecastView {
     this.outline = makeLines(B, new LineMaterial({ color: FORECAST_OUTLINE, linewidth: 9, worldUnits: false, depthTest: false, depthWrite: false }), 3);
     this.mean = makeLines(B, new LineMaterial({ color: FORECAST_COLOUR, linewidth: 4, worldUnits: false, depthTest: false }), 4);
     // Samples are depth-tested (faint lines behind the mean stay behind it) and drawn in the transparent pass.
-    this.spread = makeLines(B * maxSamples, new LineMaterial({ color: FORECAST_COLOUR, linewidth: 1.2, worldUnits: false, transparent: true, opacity: 0.4, depthWrite: false }), 2);
-    this.joints = new InstancedMesh(new SphereGeometry(0.026, 12, 8), new MeshLambertMaterial({ color: FORECAST_COLOUR, depthTest: false }), nodeCount);
+    const spreadBuffer = new Float32Array(B * maxSamples * 6), spreadAttr = new BufferAttribute(spreadBuffer, 3);
+    const spreadGeometry = new BufferGeometry().setAttribute('position', spreadAttr);
+    const spreadLines = new LineSegments(spreadGeometry, new LineBasicMaterial({ color: FORECAST_COLOUR, transparent: true, opacity: 0.45, depthWrite: false }));
+    spreadLines.frustumCulled = false;
+    spreadLines.renderOrder = 2;
+    this.spread = { lines: spreadLines, buffer: spreadBuffer, attr: spreadAttr };
+    this.joints = new InstancedMesh(new SphereGeometry(0.026, 10, 6), new MeshLambertMaterial({ color: FORECAST_COLOUR, depthTest: false }), nodeCount);
     this.joints.frustumCulled = false;
     this.joints.renderOrder = 5;
     const m = this.joints.instanceMatrix.array as Float32Array;
@@ -66,7 +73,7 @@ export class ForecastView {
 
   /** The line materials (their pixel resolution is set on resize). */
   get materials(): LineMaterial[] {
-    return [this.outline.material, this.mean.material, this.spread.material];
+    return [this.outline.material, this.mean.material];
   }
 
   /** Returns the forecast being drawn, or null. */
@@ -97,7 +104,7 @@ export class ForecastView {
     this.outline.buffer.set(this.mean.buffer);
     const S = Math.min(this.maxSamples, f.samples.length);
     for (let s = 0; s < S; s++) writeBones(f.samples[s]!, base, this.ends, this.spread.buffer, s * B);
-    this.spread.lines.geometry.instanceCount = S * B;
+    this.spread.lines.geometry.setDrawRange(0, S * B * 2);
     const m = this.joints.instanceMatrix.array as Float32Array;
     for (let n = 0; n < N; n++) {
       m[n * 16 + 12] = f.mean[base + n * 3]!;
@@ -107,7 +114,7 @@ export class ForecastView {
     this.joints.instanceMatrix.needsUpdate = true;
     this.mean.attr.data.needsUpdate = true;
     this.outline.attr.data.needsUpdate = true;
-    this.spread.attr.data.needsUpdate = true;
+    this.spread.attr.needsUpdate = true;
   }
 
   /** Sets the line materials' pixel resolution. */
