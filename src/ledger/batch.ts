@@ -84,7 +84,7 @@ export async function runBatch(o: BatchOptions): Promise<BatchSummary> {
   const summary: BatchSummary = { found: found.length, inShard: mine.length, scored: 0, skipped: 0, already: 0, failed: [], workers: 0, elapsedS: 0, modelKey: key };
   try {
     const done = scoredTakes(db, key);
-    const todo: { t: FoundTake; id: TakeIdentity | null }[] = [];
+    const todo: { t: FoundTake; id: TakeIdentity | null; bytes: number }[] = [];
     const fail = (t: FoundTake, sha: string, bytes: number, id: TakeIdentity | null, reason: string) => {
       recordFailure(db, { sha256: sha, path: t.shown, bytes }, id, o.score.model, reason, o.score.toolVersion);
       summary.failed.push({ path: t.shown, reason });
@@ -96,8 +96,10 @@ export async function runBatch(o: BatchOptions): Promise<BatchSummary> {
       if (done.has(sha)) { summary.skipped++; continue; }
       let id: TakeIdentity | null = null;
       try { id = takeIdentity(t.file, t.root); } catch (e) { fail(t, sha, bytes.byteLength, null, (e as Error).message); continue; }
-      todo.push({ t, id });
+      todo.push({ t, id, bytes: bytes.byteLength });
     }
+    // Largest takes first, so the pool does not end on one long take while the other workers idle.
+    todo.sort((a, b) => b.bytes - a.bytes || (a.t.shown < b.t.shown ? -1 : a.t.shown > b.t.shown ? 1 : 0));
     const total = mine.length;
     let finished = summary.skipped + summary.failed.length;
     o.onProgress?.(finished, total, '');
