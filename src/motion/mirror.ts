@@ -7,6 +7,7 @@
 // made on a mirrored window lands on the original take's world (useful for averaging both readings).
 import { frameToWorld } from './frame.js';
 import { mirrorState } from './reflect.js';
+import type { Track } from './track.js';
 import type { Window } from './window.js';
 
 export { mirrorState } from './reflect.js';
@@ -48,4 +49,22 @@ export function mirrorPairValues(values: Float64Array, pairMirror: Int32Array, w
     }
   }
   return out;
+}
+
+/**
+ * Returns the take's track reflected across the world's vertical x-z plane (canonical y → −y) with the
+ * l_ and r_ nodes swapped: the mirror-image walker, whose windows are the original's mirrored windows
+ * (the heading frame follows the reflected motion). Applied twice it is the identity, bit for bit.
+ */
+export function mirrorTrack(track: Track): Track {
+  const N = track.nodeCount, positions = new Float64Array(track.positions.length);
+  for (let k = 0; k < track.steps; k++) {
+    for (let i = 0; i < N; i++) {
+      const src = (k * N + track.nodeMirror[i]!) * 3, dst = (k * N + i) * 3;
+      positions[dst] = track.positions[src]!;
+      positions[dst + 1] = -track.positions[src + 1]!;
+      positions[dst + 2] = track.positions[src + 2]!;
+    }
+  }
+  return { ...track, path: `${track.path} (mirrored)`, positions };
 }

@@ -2,7 +2,7 @@
 // values follow the pair mirror map, and toWorld of a mirrored window lands on the original take.
 import { Matrix4, Vector3 } from 'three';
 import { describe, expect, it } from 'vitest';
-import { mirrorPairValues, mirrorState, mirrorWindow } from '../../src/motion/mirror.js';
+import { mirrorPairValues, mirrorState, mirrorTrack, mirrorWindow } from '../../src/motion/mirror.js';
 import { DEFAULT_PAIRS, MOTION_NODES, NODE_MIRROR, pairIndex } from '../../src/motion/roles.js';
 import { makeWindow } from '../../src/motion/window.js';
 import { at, sameBits, synthTrack } from './support.js';
@@ -80,5 +80,16 @@ describe('mirror augmentation', () => {
     const s = pairIndex(ix('thorax'), ix('head'));
     expect([out[s * 2], out[s * 2 + 1]]).toEqual([values[s * 2], values[s * 2 + 1]]);
     expect(sameBits(mirrorPairValues(out, DEFAULT_PAIRS.mirror, width, out), values)).toBe(true);
+  });
+
+  it('a mirrored track is the mirror-image walker: its windows are the mirrored windows, and twice is the identity', () => {
+    const mt = mirrorTrack(tr);
+    expect(sameBits(mirrorTrack(mt).positions, tr.positions)).toBe(true);
+    // The heading frame of the reflected walker is the reflected frame, so the window of the mirrored
+    // track equals the mirrored window of the original up to rounding of the frame's rotation.
+    const wm = makeWindow(mt, 150);
+    let worst = 0;
+    for (let i = 0; i < wm.observed.length; i++) worst = Math.max(worst, Math.abs(wm.observed[i]! - m.observed[i]!));
+    expect(worst).toBeLessThan(1e-9);
   });
 });
