@@ -104,3 +104,77 @@ export function heldOutCohort(perGroup = 5, duration = 30): CohortSubject[] {
     }
   return out;
 }
+
+/** One-sided impairments of the asymmetry validation cohort. */
+export type AsymmetryKind = 'knee' | 'hip' | 'ankle' | 'stance' | 'step' | 'arm';
+export const ASYMMETRY_KINDS: readonly AsymmetryKind[] = ['knee', 'hip', 'ankle', 'stance', 'step', 'arm'];
+/** Joints whose rotation channels the second arm narrows after the fact (the shoulder: the arm swing). */
+export type EditedJoint = 'hip' | 'knee' | 'ankle' | 'shoulder';
+export const EDITED_JOINTS: readonly EditedJoint[] = ['hip', 'knee', 'ankle', 'shoulder'];
+/** Severity strata, fractions: [low, high). */
+export const SEVERITY_STRATA: readonly [number, number][] = [[0.1, 0.2], [0.2, 0.3], [0.3, 0.4]];
+
+/** One subject of the asymmetry validation cohort. */
+export interface AsymmetrySubject {
+  id: string;
+  /** control: natural left/right differences only; synth: impaired by the walker; edit: a normal take narrowed afterwards. */
+  arm: 'control' | 'synth' | 'edit';
+  kind: AsymmetryKind | EditedJoint | null;
+  side: 'left' | 'right' | null;
+  /** 0 for controls, else 0.1-0.4. */
+  severity: number;
+  options: Partial<SynthOptions> & { seed: number };
+}
+
+/**
+ * Returns the walker's impairment of a kind at a severity (0..1): the ranges and the arm swing keep
+ * 1 − severity of their normal range; stance and step shortening reach the walker's "marked" value
+ * (1) at a severity of 40 %.
+ */
+export function impairmentOf(kind: AsymmetryKind, severity: number, compensate: boolean): SideImpairment {
+  const short = Math.min(1, severity / 0.4);
+  switch (kind) {
+    case 'knee': return { kneeRange: round3(1 - severity), compensate };
+    case 'hip': return { hipRange: round3(1 - severity), compensate };
+    case 'ankle': return { ankleRange: round3(1 - severity), compensate };
+    case 'stance': return { stanceShortening: round3(short), compensate };
+    case 'step': return { stepShortening: round3(short), compensate };
+    case 'arm': return { armSwing: round3(1 - severity), compensate };
+  }
+}
+
+/**
+ * Returns the asymmetry validation cohort (seeds 40000+ and 50000+, disjoint from the training and
+ * held-out cohorts): `controls` walkers with natural left/right differences of scale 0.5-1.5; per
+ * impairment kind and severity stratum, `perStratum` walkers impaired on a random side by the walker;
+ * and per edited joint and stratum, `editPerStratum` normal walkers whose take is narrowed afterwards
+ * (the edit itself is the script's: src/bvh/damp.ts).
+ */
+export function asymmetryCohort(o: { controls?: number; perStratum?: number; editPerStratum?: number; duration?: number } = {}): AsymmetrySubject[] {
+  const duration = o.duration ?? 30, out: AsymmetrySubject[] = [];
+  const pick = new Mulberry32(4242);
+  let i = 0;
+  const id = (prefix: string) => `${prefix}${String(out.length + 1).padStart(3, '0')}`;
+  for (let k = 0; k < (o.controls ?? 80); k++, i++) {
+    const opts = subjectOptions(40000 + i, duration, 60);
+    opts.asymmetry = round3(0.5 + pick.next());
+    out.push({ id: id('VC'), arm: 'control', kind: null, side: null, severity: 0, options: opts });
+  }
+  for (const kind of ASYMMETRY_KINDS)
+    for (const [lo, hi] of SEVERITY_STRATA)
+      for (let k = 0; k < (o.perStratum ?? 8); k++, i++) {
+        const opts = subjectOptions(40000 + i, duration, 60);
+        const side = pick.next() < 0.5 ? 'left' : 'right', severity = round3(lo + (hi - lo) * pick.next());
+        opts.impairments = { [side]: impairmentOf(kind, severity, k % 2 === 0) };
+        out.push({ id: id('VI'), arm: 'synth', kind, side, severity, options: opts });
+      }
+  let j = 0;
+  for (const joint of EDITED_JOINTS)
+    for (const [lo, hi] of SEVERITY_STRATA)
+      for (let k = 0; k < (o.editPerStratum ?? 8); k++, j++) {
+        const opts = subjectOptions(50000 + j, duration, 60);
+        const side = pick.next() < 0.5 ? 'left' : 'right', severity = round3(lo + (hi - lo) * pick.next());
+        out.push({ id: id('VE'), arm: 'edit', kind: joint, side, severity, options: opts });
+      }
+  return out;
+}
