@@ -82,7 +82,7 @@ const fc = createForecaster(model, samples);
 const scoredTakes = cohort.filter((ct) => ct.subject.group !== 'stumble');
 // A take's static factors: the mean over its windows (one every `everyS`), with the mean posterior SD.
 const takeStatic = scoredTakes.map((ct) => {
-  const f = takeFactors(model, ct.track, { everyS });
+  const f = takeFactors(model, ct.track, { everyS, mirrorAverage: false });
   return { mean: f.staticMean, logVar: Float64Array.from(f.staticPosteriorSd, (sd) => 2 * Math.log(sd)) };
 });
 let ownErr = 0, swapErr = 0, swapCount = 0;

@@ -84,25 +84,36 @@ export function couplingNorms(takes: readonly TakeFactors[]): CouplingNorms {
   return { ...base, controlScoreP50: at(0.5), controlScoreP90: at(0.9) };
 }
 
-/** Returns the means and SDs of the static factors and of their pair-minus-mirror differences over takes. */
+/**
+ * Returns the means and SDs of the static factors and of their pair-minus-mirror differences over takes,
+ * each take counted together with its mirror image (pair p's factors moved to m(p)): the figures are
+ * then symmetric by construction (a pair and its mirror share their norms, the differences have mean 0),
+ * so a take and its mirror image get the same score. With mirror-averaged factors the mirror image is
+ * exactly that permutation; with raw factors it is the best available stand-in.
+ */
 function normsOf(takes: readonly TakeFactors[]): Omit<CouplingNorms, 'controlScoreP50' | 'controlScoreP90'> {
   const t0 = takes[0];
   if (!t0 || takes.length < 3) throw new RangeError('normative coupling figures need at least three control takes');
   const P = t0.pairs, S = t0.staticDims, n = takes.length;
+  const mirror = DEFAULT_PAIRS.mirror;
   const acc = (value: (t: TakeFactors, p: number, d: number) => number) => {
     const mean = new Array<number>(P * S).fill(0), sd = new Array<number>(P * S).fill(0);
     for (let i = 0; i < P * S; i++) {
       const p = Math.floor(i / S), d = i % S;
-      const xs = takes.map((t) => value(t, p, d));
-      const m = xs.reduce((s, x) => s + x, 0) / n;
+      // The mirror image's value at pair p is the take's value at m(p) (for the differences: d_m(p) = −d_p).
+      const xs = takes.flatMap((t) => [value(t, p, d), value(t, mirror[p]!, d)]);
+      const m = xs.reduce((s, x) => s + x, 0) / xs.length;
       mean[i] = m;
-      // A floor keeps a dimension the cohort never varies from dividing by zero.
-      sd[i] = Math.max(1e-3, Math.sqrt(xs.reduce((s, x) => s + (x - m) ** 2, 0) / (n - 1)));
+      // A floor keeps a dimension the cohort never varies from dividing by zero; n − 1 degrees of freedom
+      // (a take and its mirror image are one subject).
+      sd[i] = Math.max(1e-3, Math.sqrt(xs.reduce((s, x) => s + (x - m) ** 2, 0) / 2 / (n - 1)));
     }
     return { mean, sd };
   };
-  const st = acc((t, p, d) => t.staticMean[p * S + d]!);
-  const df = acc((t, p, d) => t.staticMean[p * S + d]! - t.staticMean[DEFAULT_PAIRS.mirror[p]! * S + d]!);
+  const staticValue = (t: TakeFactors, p: number, d: number) => t.staticMean[p * S + d]!;
+  const diffValue = (t: TakeFactors, p: number, d: number) => t.staticMean[p * S + d]! - t.staticMean[mirror[p]! * S + d]!;
+  const st = acc(staticValue);
+  const df = acc(diffValue);
   return { subjects: n, staticDims: S, staticMean: st.mean, staticSd: st.sd, diffMean: df.mean, diffSd: df.sd };
 }
 

@@ -4,7 +4,13 @@
 // causal) as the take's dynamic factor series; and that series binned over the gait cycle (0-100 %, from
 // the take's initial contacts) per pair: a pair whose sender is on the right is binned by the right
 // cycle, every other by the left, so a pair and its mirror are compared at the same phase of their side.
+//
+// Mirror averaging (on by default): each window is also read from the take's mirror image, and pair p's
+// static factors are the mean of its own reading and the mirror image's reading of pair m(p). Whatever
+// left/right bias the encoder has cancels: an exactly symmetric walker gets identical factors on a pair
+// and its mirror, and mirroring a take swaps every pair's factors with its mirror's exactly.
 import { frameNodes } from '../motion/frame.js';
+import { mirrorTrack } from '../motion/mirror.js';
 import { DEFAULT_PAIRS, MOTION_NODES } from '../motion/roles.js';
 import type { Track } from '../motion/track.js';
 import { allocateWindow, fillWindow, resolveWindowOptions } from '../motion/window.js';
@@ -27,14 +33,18 @@ export interface TakeFactors {
   staticSd: Float64Array;
   /** Mean posterior SD of the static factors, pairs × S (the model's own uncertainty). */
   staticPosteriorSd: Float64Array;
-  /** Last dynamic point of each window, windows × pairs × D. */
+  /** Last dynamic point of each window, windows × pairs × D (read from the take itself, never mirrored). */
   dynamicSeries: Float64Array;
+  /** Whether the static factors are mirror-averaged. */
+  mirrorAveraged: boolean;
 }
 
 /** Options of takeFactors. */
 export interface TakeFactorOptions {
   /** Seconds between windows (default 0.5). */
   everyS?: number;
+  /** Average each static reading with the mirror image's reading of the mirror pair (default true). */
+  mirrorAverage?: boolean;
 }
 
 /** Returns the factor summaries of a take; throws RangeError when it is too short for one window. */
@@ -47,13 +57,26 @@ export function takeFactors(model: CouplingModel, track: Track, options: TakeFac
   if (ends.length === 0) throw new RangeError(`${track.path}: the take is too short for one ${(c.observe / c.rate).toFixed(1)}-s window`);
   const opts = resolveWindowOptions(track.rate, modelWindowOptions(c));
   const win = allocateWindow(track, opts), nodes = frameNodes(track), reader = createFactorReader(model);
-  const n = ends.length;
+  const mirrorAveraged = options.mirrorAverage ?? true;
+  const mirrored = mirrorAveraged ? mirrorTrack(track) : null, mirrorNodes = mirrored ? frameNodes(mirrored) : null;
+  const n = ends.length, mirrorOf = DEFAULT_PAIRS.mirror;
   const staticPerWindow = new Float64Array(n * P * S), dynamicSeries = new Float64Array(n * P * D);
   const staticPosteriorSd = new Float64Array(P * S);
   ends.forEach((e, w) => {
     const f = windowFactors(model, fillWindow(track, e, opts, nodes, win), reader);
-    staticPerWindow.set(f.staticMean, w * P * S);
-    for (let i = 0; i < P * S; i++) staticPosteriorSd[i]! += f.staticSd[i]! / n;
+    const o = w * P * S;
+    if (mirrored) {
+      const g = windowFactors(model, fillWindow(mirrored, e, opts, mirrorNodes!, win), reader);
+      for (let p = 0; p < P; p++)
+        for (let d = 0; d < S; d++) {
+          const i = p * S + d, j = mirrorOf[p]! * S + d;
+          staticPerWindow[o + i] = 0.5 * (f.staticMean[i]! + g.staticMean[j]!);
+          staticPosteriorSd[i]! += (0.5 * (f.staticSd[i]! + g.staticSd[j]!)) / n;
+        }
+    } else {
+      staticPerWindow.set(f.staticMean, o);
+      for (let i = 0; i < P * S; i++) staticPosteriorSd[i]! += f.staticSd[i]! / n;
+    }
     dynamicSeries.set(f.dynamicMean.subarray((K - 1) * P * D, K * P * D), w * P * D);
   });
   const staticMean = new Float64Array(P * S), staticSd = new Float64Array(P * S);
@@ -68,7 +91,7 @@ export function takeFactors(model: CouplingModel, track: Track, options: TakeFac
   }
   return {
     pairs: P, staticDims: S, dynamicDims: D, windowEnds: ends, times: Float64Array.from(ends, (e) => e / track.rate),
-    staticPerWindow, staticMean, staticSd, staticPosteriorSd, dynamicSeries,
+    staticPerWindow, staticMean, staticSd, staticPosteriorSd, dynamicSeries, mirrorAveraged,
   };
 }
 

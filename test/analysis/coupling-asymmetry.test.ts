@@ -25,7 +25,7 @@ function factors(seed: number, noise: number, edit?: (p: number, d: number) => n
   return {
     pairs: P, staticDims: S, dynamicDims: 2, windowEnds: Array.from({ length: WINDOWS }, (_, w) => 60 + 15 * w),
     times: Float64Array.from({ length: WINDOWS }, (_, w) => (60 + 15 * w) / 30), staticPerWindow, staticMean,
-    staticSd: new Float64Array(P * S), staticPosteriorSd: new Float64Array(P * S), dynamicSeries: new Float64Array(WINDOWS * P * 2),
+    staticSd: new Float64Array(P * S), staticPosteriorSd: new Float64Array(P * S), dynamicSeries: new Float64Array(WINDOWS * P * 2), mirrorAveraged: false,
   };
 }
 
@@ -70,9 +70,10 @@ describe('coupling asymmetry', () => {
     const a = couplingAsymmetry(take, norms, { replicates: 20 }), b = couplingAsymmetry(mirrored, norms, { replicates: 20 });
     expect(b.side).toBe('right');
     expect(b.ranked[0]!.side).toBe('right');
-    // The controls are symmetric in distribution, so the shifted couple scores alike on either side.
-    expect(b.ranked[0]!.score).toBeGreaterThan(0.8 * a.ranked[0]!.score);
-    expect(b.ranked[0]!.score).toBeLessThan(1.25 * a.ranked[0]!.score);
+    // The norms count every control with its mirror image, so a take and its mirror image score the same.
+    expect(b.ranked[0]!.score).toBeCloseTo(a.ranked[0]!.score, 9);
+    expect(b.score).toBeCloseTo(a.score, 9);
+    for (const d of norms.diffMean) expect(Math.abs(d)).toBeLessThan(1e-12);
   });
 
   it('scores a symmetric take near the controls and below a shifted one', () => {
