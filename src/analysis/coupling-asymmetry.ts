@@ -2,12 +2,13 @@
 //
 // For a pair p with mirror m(p) ≠ p (left hip → left knee with right hip → right knee, left knee → right
 // ankle with right knee → left ankle, ...), the difference d_p = static(p) − static(m(p)) is compared with
-// the normative cohort's mean and SD of the same difference (per factor dimension, so any bias of the
-// model between a pair and its mirror is part of "normal"): the pair score is the RMS over dimensions of
-// (d_p − μ_p) / σ_p. The interval is a percentile bootstrap over blocks of windows (about a stride each),
-// the take score the mean of the five highest pair scores, the joint the lateral joint group whose couples
-// score highest, and the side that of the group's nodes lying farther from the cohort (a node's distance:
-// the mean z-scored RMS distance of its pairs' factors from the cohort's).
+// the normative cohort's mean and SD of the same difference (per factor dimension; the cohort counts each
+// control with its mirror image, so μ_p = 0 and a take scores as its mirror image does): the pair score is
+// the RMS over dimensions of (d_p − μ_p) / σ_p. The interval is a percentile bootstrap over blocks of
+// windows (about a stride each), the take score the mean of the five highest pair scores, the joint the
+// one whose carried nodes' couples score highest (the hip carries the knee, the knee the ankle, ...), and
+// the side that of the joint's nodes lying farther from the cohort (a node's distance: the mean z-scored
+// RMS distance of its pairs' factors from the cohort's).
 import { DEFAULT_PAIRS, MOTION_NODES } from '../motion/roles.js';
 import { Pcg32 } from '../nn/prng.js';
 import type { TakeFactors } from './factors.js';
@@ -50,7 +51,10 @@ export interface CouplingAsymmetry {
 }
 
 export type JointGroup = 'hip' | 'knee' | 'ankle' | 'shoulder/arm';
-const JOINT_OF: Record<string, JointGroup> = { hip: 'hip', knee: 'knee', ankle: 'ankle', toe: 'ankle', shoulder: 'shoulder/arm', elbow: 'shoulder/arm', wrist: 'shoulder/arm' };
+// A joint's rotation shows first in the motion of the node it carries (its child in the chain): the hip
+// moves the knee, the knee the ankle, the ankle the toe, the shoulder the elbow and wrist. The hip and
+// shoulder nodes themselves ride on the pelvis and trunk, so they name no joint.
+const JOINT_OF: Record<string, JointGroup> = { knee: 'hip', ankle: 'knee', toe: 'ankle', elbow: 'shoulder/arm', wrist: 'shoulder/arm' };
 const TOP = 5;
 
 /** Returns "sender→receiver" of pair p. */
@@ -200,7 +204,7 @@ export function couplingAsymmetry(f: TakeFactors, norms: CouplingNorms, options:
     const m = DEFAULT_PAIRS.mirror[p]!;
     return { pair: pairName(p), mirror: pairName(m), score: scores[k]!, ciLow: q(boot[k]!, 0.025), ciHigh: q(boot[k]!, 0.975), side: sideOf(dist[p]! >= dist[m]! ? p : m) };
   }).sort((a, b) => b.score - a.score);
-  // Joint: the lateral joint group whose couples score highest on average.
+  // Joint: the joint whose carried nodes' couples score highest on average.
   const sums: Record<JointGroup, { s: number; k: number }> = { hip: { s: 0, k: 0 }, knee: { s: 0, k: 0 }, ankle: { s: 0, k: 0 }, 'shoulder/arm': { s: 0, k: 0 } };
   couples.forEach((p, k) => {
     const groups = new Set<JointGroup>();

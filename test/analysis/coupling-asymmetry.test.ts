@@ -53,8 +53,17 @@ describe('coupling asymmetry', () => {
     expect(a.ranked[0]!.ciLow).toBeLessThanOrEqual(a.ranked[0]!.score * 1.05);
     expect(a.ranked[0]!.ciHigh).toBeGreaterThanOrEqual(a.ranked[0]!.ciLow);
     expect(a.side).toBe('left');
-    expect(['hip', 'knee']).toContain(a.joint);
+    // l_hip→l_knee: the hip node names no joint, the knee node is carried by the hip.
+    expect(a.joint).toBe('hip');
     expect(a.summary).toContain('left side');
+  });
+
+  it('names the joint that carries the shifted node: every pair of the left ankle shifted names the left knee', () => {
+    const ankle = node('l_ankle');
+    const take = factors(8, 0.05, (p) => (DEFAULT_PAIRS.sender[p] === ankle || DEFAULT_PAIRS.receiver[p] === ankle ? 0.5 : 0));
+    const a = couplingAsymmetry(take, norms, { replicates: 20 });
+    expect(a.joint).toBe('knee');
+    expect(a.side).toBe('left');
   });
 
   it('flips the side and keeps the score when every pair swaps with its mirror (mirror test)', () => {
