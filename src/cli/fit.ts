@@ -21,6 +21,8 @@ interface FitFlags extends ImportFlags {
   seed: number;
   threads: number;
   twin: boolean;
+  matchPairing: boolean;
+  restrictedLabeling: boolean;
   quiet?: boolean;
   json?: boolean;
 }
@@ -44,6 +46,8 @@ export function register(program: Command): void {
     .option('--seed <n>', 'seed: same seed, same machine, same weights', numberOption(0, 2 ** 31 - 1, true), 1)
     .option('--threads <n>', 'threads for the training steps (1 or 2; the weights do not depend on it)', numberOption(1, 2, true), 2)
     .option('--no-twin', 'skip the no-coupling twin (forecast then reports no no_coupling figures)')
+    .option('--no-match-pairing', 'ablation: windows drawn in pairs from one take no longer share their static factors')
+    .option('--no-restricted-labeling', 'ablation: no dynamic dimensions tied to the gait phase')
     .option('--quiet', 'no progress bar')
     .option('--json', 'print the training summary as JSON');
   withImportOptions(cmd).action(async (paths: string[], flags: FitFlags) => {
@@ -63,6 +67,7 @@ export function register(program: Command): void {
       threads: flags.threads,
       seed: flags.seed,
       twin: flags.twin,
+      config: { matchPairing: flags.matchPairing, restrictedLabeling: flags.restrictedLabeling },
       onPhase: (p) => { phase = p; },
       onProgress: (p) => bar.update(p.epoch * p.stepsPerEpoch + p.step, p.epochs * p.stepsPerEpoch, `${phase} epoch ${p.epoch + 1}/${p.epochs} loss ${p.trainLoss.toFixed(3)}${Number.isFinite(p.validLoss) ? ` held-out ${p.validLoss.toFixed(3)}` : ''}`),
     });
@@ -72,6 +77,7 @@ export function register(program: Command): void {
     const summary = {
       output: flags.output, takes: files.length, subjects: [...new Set(takes.map((t) => t.subject))].length,
       train_subjects: s.trainSubjects, valid_subjects: s.validSubjects, epochs_run: s.epochs, best_epoch: s.bestEpoch, steps: s.steps,
+      match_pairing: flags.matchPairing, restricted_labeling: flags.restrictedLabeling,
       valid_loss: s.validLoss[s.bestEpoch] ?? null, ms_per_step: s.msPerStep, spread_scale: pair.spread,
       twin: pair.twinSummary ? { best_epoch: pair.twinSummary.bestEpoch, valid_loss: pair.twinSummary.validLoss[pair.twinSummary.bestEpoch] ?? null } : null,
     };

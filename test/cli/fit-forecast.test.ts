@@ -33,6 +33,16 @@ describe('fit and forecast commands', () => {
     expect(file.extras.no_coupling.config.noCoupling).toBe(true);
   }, 300_000);
 
+  it('fit --no-match-pairing --no-restricted-labeling writes the ablation into the model file', async () => {
+    const ablated = join(tmp, 'ablated.json');
+    const r = await runCli(['fit', join(tmp, 'P1.bvh'), join(tmp, 'P2.bvh'), join(tmp, 'P3.bvh'), '-o', ablated, '--epochs', '1', '--no-twin', '--no-match-pairing', '--no-restricted-labeling', '--json']);
+    expect(r.code).toBe(0);
+    const s = JSON.parse(r.stdout);
+    expect([s.match_pairing, s.restricted_labeling]).toEqual([false, false]);
+    const file = JSON.parse(readFileSync(ablated, 'utf8'));
+    expect([file.config.matchPairing, file.config.restrictedLabeling]).toEqual([false, false]);
+  }, 300_000);
+
   it('forecast --json scores the model, the twin and every baseline at the three horizons', async () => {
     const r = await runCli(['forecast', join(tmp, 'P2.bvh'), '--model', model, '--at', '3', '--samples', '6', '--json']);
     expect(r.code).toBe(0);
