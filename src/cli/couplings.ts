@@ -95,7 +95,7 @@ export function register(program: Command): void {
     if (asym) {
       lines.push(`  ${asym.summary}`, '  largest pair differences (score, 95 % interval, side farther from the cohort):');
       for (const r of asym.ranked.slice(0, 8)) lines.push(`    ${r.pair.padEnd(24)} vs ${r.mirror.padEnd(24)} ${r.score.toFixed(2).padStart(6)}  ${r.ciLow.toFixed(2)}-${r.ciHigh.toFixed(2)}  ${r.side}`);
-      lines.push(`  by joint: ${Object.entries(asym.joints).map(([k, v]) => `${k} ${v.toFixed(2)}`).join(', ')}`);
+      lines.push(`  by joint: ${Object.entries(asym.joints).map(([k, v]) => `${k} ${v.toFixed(2)}`).join(', ')}`, '    (each joint scored by the couples of the nodes it carries: hip the knee, knee the ankle, ankle the toe, shoulder the elbow and wrist)');
     } else lines.push(`  ${modelPath} holds no normative coupling figures, so no asymmetry is scored`);
     lines.push('  classic left-right differences, 95 % bootstrap intervals over cycles:');
     const fmt = (v: number | null, ci: [number, number] | null | undefined) => (v === null ? '–' : `${v.toFixed(1)}${ci ? ` (${ci[0].toFixed(1)}-${ci[1].toFixed(1)})` : ''}`);

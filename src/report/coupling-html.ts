@@ -11,6 +11,9 @@ import { SIDE_STYLE } from './gait-html.js';
 import { escapeXml, linePlotSvg } from './svg.js';
 import { viridis } from './viridis.js';
 
+/** The nodes whose couples score each joint (src/analysis/coupling-asymmetry.ts). */
+const CARRIED: Record<string, string> = { hip: 'knee', knee: 'ankle', ankle: 'toe', 'shoulder/arm': 'elbow, wrist' };
+
 /** What the coupling report shows. */
 export interface CouplingReportData {
   file: string;
@@ -94,7 +97,7 @@ export function couplingReportHtml(d: CouplingReportData, caution: string): stri
     '<h2>Coupling asymmetry</h2>',
     a ? `<p>${escapeXml(a.summary)}</p>` : '<p class="warn">The model file holds no normative coupling figures, so no asymmetry is scored.</p>',
     a ? htmlTable(['pair', 'mirror', 'score', '95 % low', '95 % high', 'side farther from the cohort'], a.ranked.slice(0, 12).map((r) => [r.pair, r.mirror, fx(r.score), fx(r.ciLow), fx(r.ciHigh), { raw: r.side === 'midline' ? 'midline' : `<span class="side-${r.side}">${r.side}</span>` }])) : '',
-    a ? htmlTable(['joint group', 'mean couple score'], Object.entries(a.joints).map(([k, v]) => [k, fx(v)])) : '',
+    a ? htmlTable(['joint', 'scored by the nodes it carries', 'mean couple score'], Object.entries(a.joints).map(([k, v]) => [k, CARRIED[k] ?? '', fx(v)])) : '',
     '<p class="sub">Score: RMS over factor dimensions of the pair-minus-mirror difference of the static factors, z-scored against the model\'s normative cohort; interval: bootstrap over blocks of windows.</p>',
     '<h2>Static coupling</h2>',
     `<p class="sub">${f.windowEnds.length} windows of 2 s, one every ${(f.times[1] !== undefined ? f.times[1] - f.times[0]! : 0.5).toFixed(2)} s. Colour: information in each ordered pair's static factors (KL of the posterior from the prior).</p>`,
