@@ -13,7 +13,7 @@ import { progressBar } from '../src/cli/progress.js';
 import type { TrainingTake } from '../src/model/batch.js';
 import { loadModel, saveModel } from '../src/model/modelfile.js';
 import { fitPair, savePair } from '../src/model/pair-fit.js';
-import { trainingCohort } from '../src/synth/cohort.js';
+import { normativeCohort, trainingCohort } from '../src/synth/cohort.js';
 import { COUPLING_NORMS_KEY, couplingNorms, type CouplingNorms } from '../src/analysis/coupling-asymmetry.js';
 import type { CouplingModel } from '../src/model/model.js';
 import { takeFactors } from '../src/analysis/factors.js';
@@ -40,9 +40,9 @@ const t0 = performance.now();
 const cohort = trainingCohort(recipe.subjects, recipe.seconds);
 // Each take with its causal gait phase, so restricted labeling ties two dynamic dimensions to it.
 const takes: TrainingTake[] = cohort.map((s) => { const c = cohortTrack(s); return { track: c.track, subject: s.id, phase: c.phase }; });
-/** Returns the normative coupling figures of the cohort's normal walkers under a model. */
+/** Returns the normative coupling figures under a model: the normative cohort's walkers, never trained on. */
 function cohortNorms(model: CouplingModel): CouplingNorms {
-  return couplingNorms(takes.filter((_, i) => cohort[i]!.group === 'normal').map((t) => takeFactors(model, t.track)));
+  return couplingNorms(normativeCohort().map((s) => takeFactors(model, cohortTrack(s).track)));
 }
 if (v['norms-only']) {
   // Recompute only the normative coupling figures of an existing model file (weights untouched).
@@ -62,7 +62,7 @@ const pair = await fitPair(takes, {
   onProgress: (p) => bar.update(p.epoch * p.stepsPerEpoch + p.step, p.epochs * p.stepsPerEpoch, `${phase} epoch ${p.epoch + 1}/${p.epochs} loss ${p.trainLoss.toFixed(3)}${Number.isFinite(p.validLoss) ? ` held-out ${p.validLoss.toFixed(3)}` : ''}`),
 });
 bar.stop();
-// Normative coupling figures from the cohort's normal walkers (issue: asymmetry against a normative cohort).
+// Normative coupling figures from the normative cohort (48 walkers of their own seeds, never trained on).
 const norms = cohortNorms(pair.model);
 savePair(output, pair, { [COUPLING_NORMS_KEY]: norms });
 const seconds = (performance.now() - t0) / 1000;

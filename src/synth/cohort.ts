@@ -105,6 +105,22 @@ export function heldOutCohort(perGroup = 5, duration = 30): CohortSubject[] {
   return out;
 }
 
+/**
+ * Returns the normative coupling cohort (seeds 30000+, disjoint from every other cohort): `count` normal
+ * walkers (default 48) with natural left/right differences of scale 0.5-1.5, naming styles and units
+ * mixed. Their coupling factors define "normal" for the asymmetry score (src/analysis/coupling-asymmetry.ts).
+ */
+export function normativeCohort(count = 48, duration = 30): CohortSubject[] {
+  const pick = new Mulberry32(3131);
+  return Array.from({ length: count }, (_, i) => {
+    const o = subjectOptions(30000 + i, duration, 60);
+    o.asymmetry = round3(0.5 + pick.next());
+    o.naming = NAMINGS[i % NAMINGS.length]!;
+    o.units = (['cm', 'm', 'mm', 'in'] as const)[i % 4]!;
+    return { id: `NC${String(i + 1).padStart(3, '0')}`, group: 'normal' as const, options: o };
+  });
+}
+
 /** One-sided impairments of the asymmetry validation cohort. */
 export type AsymmetryKind = 'knee' | 'hip' | 'ankle' | 'stance' | 'step' | 'arm';
 export const ASYMMETRY_KINDS: readonly AsymmetryKind[] = ['knee', 'hip', 'ankle', 'stance', 'step', 'arm'];
