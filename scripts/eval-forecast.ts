@@ -38,7 +38,7 @@ const model = loaded.model, twin = twinOf(loaded, modelPath);
 if (!twin) throw new Error(`${modelPath}: the model file holds no retrained no-coupling twin; refit it with the twin`);
 const c = model.config, F = c.forecast;
 const ev = createEvaluator({ model, noCoupling: twin }, samples);
-const cohort = heldOutCohort(perGroup, seconds).map(cohortTrack);
+const cohort = heldOutCohort(perGroup, seconds).map((s) => cohortTrack(s));
 
 /** Sums of per-horizon errors per method and of coverage over forecast points. */
 interface Tally { points: number; err: Record<string, number[]>; coverage: number }

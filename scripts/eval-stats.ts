@@ -1,7 +1,11 @@
 // Statistics of the validation scripts: ROC AUC (the Mann-Whitney form), stratified bootstrap intervals,
 // Spearman rank correlation, a cross-validated ridge probe (R² out of fold) and the one-way intraclass
 // correlation ICC(1). Plain functions on number arrays; every one is checked in test/scripts.
+import { quantile } from '../src/norms/profile.js';
 import { Pcg32 } from '../src/nn/prng.js';
+
+// The finite-value type-7 quantile of the norms module, re-exported for the validation scripts.
+export { quantile };
 
 /** Returns the ranks of xs (1-based), ties given their mean rank. */
 export function ranks(xs: readonly number[]): number[] {
@@ -24,14 +28,6 @@ export function rocAuc(pos: readonly number[], neg: readonly number[]): number {
   let sum = 0;
   for (let i = 0; i < pos.length; i++) sum += r[i]!;
   return (sum - (pos.length * (pos.length + 1)) / 2) / (pos.length * neg.length);
-}
-
-/** Returns the p-quantile (0..1) of values by linear interpolation between order statistics. */
-export function quantile(values: readonly number[], p: number): number {
-  const s = values.filter(Number.isFinite).sort((a, b) => a - b);
-  if (!s.length) return NaN;
-  const h = (s.length - 1) * p, lo = Math.floor(h), hi = Math.min(s.length - 1, lo + 1);
-  return s[lo]! + (h - lo) * (s[hi]! - s[lo]!);
 }
 
 /** Returns a 95 % percentile bootstrap interval of the AUC, positives and negatives resampled separately. */

@@ -18,12 +18,13 @@ export interface CohortTrack {
   phase: Float64Array | null;
 }
 
-/** Returns the track of a cohort subject (file name `<id>.bvh` in messages). */
-export function cohortTrack(subject: CohortSubject): CohortTrack {
+/** Returns the track of a cohort subject (file name `<id>.bvh` in messages); `phase: false` skips the gait analysis. */
+export function cohortTrack(subject: CohortSubject, options: { phase?: boolean } = {}): CohortTrack {
   const r = synthesizeTake(subject.options);
   const imported = resolveImported(`${subject.id}.bvh`, r.take);
   const track = trackFromImported(imported);
   let phase: Float64Array | null = null;
+  if (options.phase === false) return { subject, track, truth: r.truth, phase };
   try {
     const contacts = analyzeGait(imported, { lowpassHz: DEFAULT_LOWPASS_HZ, steadyOnly: false }).detection.events
       .filter((e) => e.side === 'left' && e.kind === 'initial_contact').map((e) => e.time).sort((a, b) => a - b);

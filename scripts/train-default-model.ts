@@ -42,7 +42,7 @@ const cohort = trainingCohort(recipe.subjects, recipe.seconds);
 const takes: TrainingTake[] = cohort.map((s) => { const c = cohortTrack(s); return { track: c.track, subject: s.id, phase: c.phase }; });
 /** Returns the normative coupling figures under a model: the normative cohort's walkers, never trained on. */
 function cohortNorms(model: CouplingModel): CouplingNorms {
-  return couplingNorms(normativeCohort().map((s) => takeFactors(model, cohortTrack(s).track)));
+  return couplingNorms(normativeCohort().map((s) => takeFactors(model, cohortTrack(s, { phase: false }).track)));
 }
 if (v['norms-only']) {
   // Recompute only the normative coupling figures of an existing model file (weights untouched).

@@ -10,7 +10,7 @@
 // left/right bias the encoder has cancels: an exactly symmetric walker gets identical factors on a pair
 // and its mirror, and mirroring a take swaps every pair's factors with its mirror's exactly.
 import { frameNodes } from '../motion/frame.js';
-import { mirrorTrack } from '../motion/mirror.js';
+import { mirrorPairValues, mirrorTrack } from '../motion/mirror.js';
 import { DEFAULT_PAIRS, MOTION_NODES } from '../motion/roles.js';
 import type { Track } from '../motion/track.js';
 import { allocateWindow, fillWindow, resolveWindowOptions } from '../motion/window.js';
@@ -58,21 +58,22 @@ export function takeFactors(model: CouplingModel, track: Track, options: TakeFac
   const opts = resolveWindowOptions(track.rate, modelWindowOptions(c));
   const win = allocateWindow(track, opts), nodes = frameNodes(track), reader = createFactorReader(model);
   const mirrorAveraged = options.mirrorAverage ?? true;
-  const mirrored = mirrorAveraged ? mirrorTrack(track) : null, mirrorNodes = mirrored ? frameNodes(mirrored) : null;
-  const n = ends.length, mirrorOf = DEFAULT_PAIRS.mirror;
+  const mirrored = mirrorAveraged ? mirrorTrack(track) : null;
+  const n = ends.length, mirrorMean = new Float64Array(P * S), mirrorSd = new Float64Array(P * S);
   const staticPerWindow = new Float64Array(n * P * S), dynamicSeries = new Float64Array(n * P * D);
   const staticPosteriorSd = new Float64Array(P * S);
   ends.forEach((e, w) => {
     const f = windowFactors(model, fillWindow(track, e, opts, nodes, win), reader);
     const o = w * P * S;
     if (mirrored) {
-      const g = windowFactors(model, fillWindow(mirrored, e, opts, mirrorNodes!, win), reader);
-      for (let p = 0; p < P; p++)
-        for (let d = 0; d < S; d++) {
-          const i = p * S + d, j = mirrorOf[p]! * S + d;
-          staticPerWindow[o + i] = 0.5 * (f.staticMean[i]! + g.staticMean[j]!);
-          staticPosteriorSd[i]! += (0.5 * (f.staticSd[i]! + g.staticSd[j]!)) / n;
-        }
+      // The mirror image has the same node list, so the frame nodes carry over.
+      const g = windowFactors(model, fillWindow(mirrored, e, opts, nodes, win), reader);
+      mirrorPairValues(g.staticMean, DEFAULT_PAIRS.mirror, S, mirrorMean);
+      mirrorPairValues(g.staticSd, DEFAULT_PAIRS.mirror, S, mirrorSd);
+      for (let i = 0; i < P * S; i++) {
+        staticPerWindow[o + i] = 0.5 * (f.staticMean[i]! + mirrorMean[i]!);
+        staticPosteriorSd[i]! += (0.5 * (f.staticSd[i]! + mirrorSd[i]!)) / n;
+      }
     } else {
       staticPerWindow.set(f.staticMean, o);
       for (let i = 0; i < P * S; i++) staticPosteriorSd[i]! += f.staticSd[i]! / n;
