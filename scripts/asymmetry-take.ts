@@ -28,6 +28,8 @@ export interface AsymmetryTakeResult {
   joint: string;
   /** Classic candidate scores by name (unsigned: larger = more asymmetric), null where not measurable. */
   classic: Record<string, number | null>;
+  staticDims: number;
+  dynamicDims: number;
   /** Static posterior means over the take, pairs × S. */
   staticMean: number[];
   /** Static posterior means of non-overlapping windows, windows × pairs × S. */
@@ -106,7 +108,7 @@ export function evaluateAsymmetryTake(subject: AsymmetrySubject, modelPath: stri
     mirrored = { score: am.score, side: am.side, swapError, rawSwapError, staticRange: hi - lo };
   }
   return {
-    id: subject.id, score: a.score, ciLow: a.ciLow, ciHigh: a.ciHigh, side: a.side, joint: a.joint, classic,
+    id: subject.id, score: a.score, ciLow: a.ciLow, ciHigh: a.ciHigh, side: a.side, joint: a.joint, classic, staticDims: S, dynamicDims: D,
     staticMean: Array.from(f.staticMean), staticWindows, dynamicWindows, phase, mirror: mirrored,
     warnings: imported.warnings,
   };

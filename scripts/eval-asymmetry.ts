@@ -95,6 +95,13 @@ function bestOf(results: Map<string, AsymmetryTakeResult>, family: Candidate['fa
   return best;
 }
 
+/** Returns the subjects grouped by "arm:kind", in first-seen order. */
+function byKind(ss: readonly AsymmetrySubject[]): Map<string, AsymmetrySubject[]> {
+  const out = new Map<string, AsymmetrySubject[]>();
+  for (const s of ss) { const k = `${s.arm}:${s.kind}`; out.set(k, [...(out.get(k) ?? []), s]); }
+  return out;
+}
+
 const JOINT_OF_KIND: Record<string, string> = { knee: 'knee', hip: 'hip', ankle: 'ankle', arm: 'shoulder/arm', shoulder: 'shoulder/arm' };
 
 /** Every figure of one model. */
@@ -107,7 +114,7 @@ function summarise(results: Map<string, AsymmetryTakeResult>) {
   ];
   const aucTable = (['synth', 'edit'] as const).map((arm) => ({
     arm,
-    strata: strata.map((st) => ({ stratum: st.name, ...Object.fromEntries(candidates.map((c) => [c.family === 'coupling' ? 'coupling' : `${c.family}: ${c.name}`, auc(results, c, byArm(arm).filter((s) => inStratum(s, st.lo, st.hi)))])) })),
+    strata: strata.map((st) => ({ stratum: st.name, cells: Object.fromEntries(candidates.map((c) => [c.family === 'coupling' ? 'coupling' : `${c.family}: ${c.name}`, auc(results, c, byArm(arm).filter((s) => inStratum(s, st.lo, st.hi)))])) })),
   }));
   const impaired = cohort.filter((s) => s.arm !== 'control');
   const sideHits = (ss: AsymmetrySubject[]) => ss.map((s) => results.get(s.id)!.side === s.side);
@@ -115,26 +122,23 @@ function summarise(results: Map<string, AsymmetryTakeResult>) {
   const side = { all: rate(sideHits(impaired)), synth: rate(sideHits(byArm('synth'))), edit: rate(sideHits(byArm('edit'))), severity20: rate(sideHits(impaired.filter((s) => s.severity >= 0.2))) };
   const jointKinds = impaired.filter((s) => s.kind! in JOINT_OF_KIND);
   const jointHits = (ss: AsymmetrySubject[]) => ss.map((s) => results.get(s.id)!.joint === JOINT_OF_KIND[s.kind!]);
+  const jointGroups = [...byKind(jointKinds)];
   const joint = {
     all: rate(jointHits(jointKinds)),
-    perKind: Object.fromEntries([...new Set(jointKinds.map((s) => `${s.arm}:${s.kind}`))].map((k) => [k, rate(jointHits(jointKinds.filter((s) => `${s.arm}:${s.kind}` === k)))])),
-    named: Object.fromEntries([...new Set(jointKinds.map((s) => `${s.arm}:${s.kind}`))].map((k) => {
+    perKind: Object.fromEntries(jointGroups.map(([k, ss]) => [k, rate(jointHits(ss))])),
+    named: Object.fromEntries(jointGroups.map(([k, ss]) => {
       const counts: Record<string, number> = {};
-      for (const s of jointKinds.filter((x) => `${x.arm}:${x.kind}` === k)) { const j = results.get(s.id)!.joint; counts[j] = (counts[j] ?? 0) + 1; }
+      for (const s of ss) { const j = results.get(s.id)!.joint; counts[j] = (counts[j] ?? 0) + 1; }
       return [k, counts];
     })),
   };
-  const severity = Object.fromEntries([...new Set(impaired.map((s) => `${s.arm}:${s.kind}`))].map((k) => {
-    const ss = impaired.filter((s) => `${s.arm}:${s.kind}` === k);
-    return [k, r3(spearman(ss.map((s) => s.severity), ss.map((s) => results.get(s.id)!.score)))];
-  }));
+  const severity = Object.fromEntries([...byKind(impaired)].map(([k, ss]) => [k, r3(spearman(ss.map((s) => s.severity), ss.map((s) => results.get(s.id)!.score)))]));
   // Probes on the static factors: severity from the absolute mirror differences of the take's means.
-  const couples = mirrorCouples(), S = results.values().next().value!.staticMean.length / DEFAULT_PAIRS.count;
+  const couples = mirrorCouples(), P = DEFAULT_PAIRS.count, S = results.get(cohort[0]!.id)!.staticDims, D = results.get(cohort[0]!.id)!.dynamicDims;
   const features = (r: AsymmetryTakeResult) => Float64Array.from(couples.flatMap((p) => Array.from({ length: S }, (_, s) => Math.abs(r.staticMean[p * S + s]! - r.staticMean[DEFAULT_PAIRS.mirror[p]! * S + s]!))));
   const probeSubjects = cohort.filter((s) => s.arm !== 'edit');
   const sevProbe = ridgeProbeR2(probeSubjects.map((s) => features(results.get(s.id)!)), probeSubjects.map((s) => s.severity), probeSubjects.map((s) => s.id));
   // Phase probe on the controls' non-overlapping windows: labelled dynamic dimensions (0, 1) against the others.
-  const P = DEFAULT_PAIRS.count, D = results.values().next().value!.dynamicWindows.length / Math.max(1, results.values().next().value!.phase.length) / P;
   const rows: { x: Float64Array; xOther: Float64Array; sin: number; cos: number; g: string }[] = [];
   for (const s of byArm('control')) {
     const r = results.get(s.id)!;
@@ -185,7 +189,7 @@ type Summary = ReturnType<typeof summarise>;
 
 /** The acceptance checks of one summary. */
 function acceptance(s: Summary) {
-  const pooled = (arm: number) => s.auc[arm]!.strata.find((x) => x.stratum === '≥ 20 %')! as unknown as Record<string, { auc: number; ci: [number, number] }>;
+  const pooled = (arm: number) => s.auc[arm]!.strata.find((x) => x.stratum === '≥ 20 %')!.cells;
   const checks: { check: string; value: string; pass: boolean }[] = [];
   for (const [arm, name] of [[0, 'walker-made'], [1, 'edited afterwards']] as const) {
     const c = pooled(arm).coupling!;
@@ -193,9 +197,8 @@ function acceptance(s: Summary) {
   }
   let within = true;
   for (const arm of s.auc) for (const st of arm.strata) {
-    const rec = st as unknown as Record<string, { auc: number; ci: [number, number] }>;
-    const c = rec.coupling!;
-    for (const [k, x] of Object.entries(rec)) if (k !== 'coupling' && k !== 'stratum' && c.auc < x.auc - (x.ci[1] - x.ci[0]) / 2) within = false;
+    const c = st.cells.coupling!;
+    for (const [k, x] of Object.entries(st.cells)) if (k !== 'coupling' && c.auc < x.auc - (x.ci[1] - x.ci[0]) / 2) within = false;
   }
   checks.push({ check: 'in no stratum below the best classic measure by more than its interval', value: within ? 'holds' : 'fails somewhere (see the table)', pass: within });
   checks.push({ check: 'side named for ≥ 90 % of impaired subjects', value: `${(s.side.all.rate * 100).toFixed(1)} %`, pass: s.side.all.rate >= 0.9 });
@@ -219,8 +222,8 @@ for (const a of ablations) ablationRows.push({ ...a, summary: summarise(await sc
 const checks = acceptance(main);
 const elapsed = (performance.now() - t0) / 1000;
 const keyFigures = (s: Summary) => ({
-  auc_synth_20: (s.auc[0]!.strata.at(-1) as unknown as Record<string, { auc: number }>).coupling!.auc,
-  auc_edit_20: (s.auc[1]!.strata.at(-1) as unknown as Record<string, { auc: number }>).coupling!.auc,
+  auc_synth_20: s.auc[0]!.strata.at(-1)!.cells.coupling!.auc,
+  auc_edit_20: s.auc[1]!.strata.at(-1)!.cells.coupling!.auc,
   side: s.side.all.rate, joint: s.joint.all.rate, spearman_min: Math.min(...Object.values(s.severity_spearman)),
   severity_r2: s.probes.severity_r2, phase_r2_labelled: s.probes.phase_r2.labelled, phase_r2_other: s.probes.phase_r2.other, icc: s.probes.static_icc.median,
 });
@@ -236,9 +239,9 @@ if (v.json) {
   out.push(`controls' coupling scores: median ${main.controls.median}, 90th percentile ${main.controls.p90}`);
   for (const arm of main.auc) {
     out.push('', `ROC AUC, impaired vs controls, ${arm.arm === 'synth' ? 'impaired by the walker' : 'narrowed after the fact'} (95 % bootstrap interval; n impaired/controls):`);
-    const names = Object.keys(arm.strata[0]!).filter((k) => k !== 'stratum');
+    const names = Object.keys(arm.strata[0]!.cells);
     for (const name of names) {
-      const cells = arm.strata.map((st) => { const x = (st as unknown as Record<string, { auc: number; ci: [number, number]; n: [number, number] }>)[name]!; return `${st.stratum}: ${x.auc.toFixed(3)} (${x.ci[0].toFixed(2)}-${x.ci[1].toFixed(2)}; ${x.n[0]}/${x.n[1]})`; });
+      const cells = arm.strata.map((st) => { const x = st.cells[name]!; return `${st.stratum}: ${x.auc.toFixed(3)} (${x.ci[0].toFixed(2)}-${x.ci[1].toFixed(2)}; ${x.n[0]}/${x.n[1]})`; });
       out.push(`  ${name.padEnd(40)} ${cells.join('  ')}`);
     }
   }
