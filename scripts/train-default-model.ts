@@ -4,15 +4,17 @@
 // walkers), on two threads. Same seed, same machine: the same weights.
 //
 // Run: npm run train:default [-- --epochs N] [--subjects N] [--seconds S] [--seed N] [--output FILE] [--json] [--quiet]
-// (--norms-only recomputes the normative coupling figures of an existing file; experiments: [--config '{"reconSteps": 10}'] [--lr 0.001] [--no-twin]; the shipped model uses none of them)
+// (--norms-only recomputes the normative coupling figures of an existing file, --spread-only its forecast spread calibration; experiments: [--config '{"reconSteps": 10}'] [--lr 0.001] [--no-twin]; the shipped model uses none of them)
 import { statSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { parseArgs } from 'node:util';
 import { progressBar } from '../src/cli/progress.js';
 import type { TrainingTake } from '../src/model/batch.js';
-import { loadModel, saveModel } from '../src/model/modelfile.js';
-import { fitPair, savePair } from '../src/model/pair-fit.js';
+import { loadModel, modelToJson, saveModel } from '../src/model/modelfile.js';
+import { calibrateSpread } from '../src/model/calibrate.js';
+import { calibrationStride, fitPair, heldOutWindows, savePair, twinOf } from '../src/model/pair-fit.js';
+import type { TrainingSummary } from '../src/model/train.js';
 import { normativeCohort, trainingCohort } from '../src/synth/cohort.js';
 import { COUPLING_NORMS_KEY, couplingNorms, type CouplingNorms } from '../src/analysis/coupling-asymmetry.js';
 import type { CouplingModel } from '../src/model/model.js';
@@ -25,7 +27,7 @@ export const DEFAULT_RECIPE = { subjects: 32, seconds: 30, epochs: 4, seed: 1, w
 const { values: v } = parseArgs({
   options: {
     epochs: { type: 'string' }, subjects: { type: 'string' }, seconds: { type: 'string' }, seed: { type: 'string' },
-    output: { type: 'string' }, json: { type: 'boolean' }, quiet: { type: 'boolean' }, config: { type: 'string' }, 'norms-only': { type: 'boolean' }, lr: { type: 'string' }, twin: { type: 'boolean', default: true }, 'no-twin': { type: 'boolean' },
+    output: { type: 'string' }, json: { type: 'boolean' }, quiet: { type: 'boolean' }, config: { type: 'string' }, 'norms-only': { type: 'boolean' }, 'spread-only': { type: 'boolean' }, lr: { type: 'string' }, twin: { type: 'boolean', default: true }, 'no-twin': { type: 'boolean' },
   },
 });
 const num = (s: string | undefined, d: number) => (s === undefined ? d : Number(s));
@@ -50,6 +52,22 @@ if (v['norms-only']) {
   const n = cohortNorms(loaded.model);
   saveModel(output, loaded.model, loaded.training, { ...loaded.extras, [COUPLING_NORMS_KEY]: n });
   console.log(`${output}: normative coupling figures from ${n.subjects} normal walkers (control take scores median ${n.controlScoreP50.toFixed(2)}, 90th percentile ${n.controlScoreP90.toFixed(2)})`);
+  process.exit(0);
+}
+if (v['spread-only']) {
+  // Recalibrate only the forecast spread of an existing model file and its twin on the held-out training subjects (weights untouched).
+  const loaded = loadModel(output), twin = twinOf(loaded, output);
+  const validSubjects = loaded.training?.validSubjects;
+  if (!validSubjects?.length) throw new Error(`${output}: the model file names no held-out subjects to calibrate on`);
+  const options = { validSubjects, windowStride: recipe.windowStride };
+  const wins = heldOutWindows(takes, options, loaded.model, calibrationStride(loaded.training));
+  const before = { k: loaded.model.spreadScale, adapt: loaded.model.spreadAdapt };
+  calibrateSpread(loaded.model, wins);
+  if (twin) calibrateSpread(twin, wins);
+  const extras = twin ? { ...loaded.extras, no_coupling: modelToJson(twin, (loaded.extras.no_coupling as { training?: TrainingSummary | null }).training ?? null) } : loaded.extras;
+  saveModel(output, loaded.model, loaded.training, extras);
+  const a = loaded.model.spreadAdapt;
+  console.log(`${output}: spread recalibrated on ${wins.length} held-out windows of ${validSubjects.length} subjects: scale ${before.k.toFixed(3)}${before.adapt ? ` (exponent ${before.adapt.exponent})` : ''} -> ${loaded.model.spreadScale.toFixed(3)}, exponent ${a ? a.exponent : 0}${a ? `, reference backcast ${a.reference.toFixed(4)} leg lengths` : ''}${twin ? `; twin ${twin.spreadScale.toFixed(3)}, exponent ${twin.spreadAdapt?.exponent ?? 0}` : ''}`);
   process.exit(0);
 }
 const tCohort = performance.now() - t0;

@@ -7,6 +7,7 @@ import { normalise, type MotionStats } from '../motion/normalise.js';
 import type { Track } from '../motion/track.js';
 import { allocateWindow, fillWindow, resolveWindowOptions, windowEnds, type ResolvedWindowOptions, type Window } from '../motion/window.js';
 import type { ParamStore } from '../nn/params.js';
+import type { Buf } from '../nn/types.js';
 import { modelWindowOptions, observedPoints, pointStep, type ModelConfig } from './config.js';
 import type { Batch } from './encoder.js';
 import { stridePriorScratch, stridePriorSteps, strideReconSteps, type StridePriorScratch } from './model.js';
@@ -49,6 +50,9 @@ export class BatchBuilder {
   private readonly options: ResolvedWindowOptions[];
   private readonly scratch: Float64Array;
   private readonly prior: { steps: Float64Array; recon: Float64Array; history: Float64Array; scratch: StridePriorScratch } | null;
+  /** Stride prior steps and recon steps of windows already seen, by window (the prior is a pure function of it). */
+  private readonly priorCache = new Map<number, Buf>();
+  private priorCacheBytes = 0;
 
   /** A builder for batches of `size` windows of `takes`, normalised by `stats`, in the store's precision. */
   constructor(private readonly config: ModelConfig, private readonly stats: MotionStats, private readonly takes: readonly TrainingTake[], size: number, store: ParamStore) {
@@ -83,21 +87,7 @@ export class BatchBuilder {
       s.set(win.future, T * W);
       if (ref.mirrored) mirrorState(s, track.nodeMirror, s);
       // The stride prior from the causal history as the model sees it (window frame, mirrored like the window).
-      if (this.prior) {
-        const H = win.historySteps, hist = this.prior.history.subarray(0, H * W);
-        if (ref.mirrored) mirrorState(win.history, track.nodeMirror, hist);
-        else hist.set(win.history);
-        const steps = stridePriorSteps(c, this.stats, hist, H, this.prior.steps, this.prior.scratch), prior = this.batch.prior!;
-        for (let f = 0; f < F; f++) {
-          const o = (f * B + b) * W, q = f * W;
-          for (let i = 0; i < W; i++) prior[o + i] = steps[q + i]!;
-        }
-        const recon = strideReconSteps(c, this.stats, hist, H, this.prior.recon, this.prior.scratch), pr = this.batch.priorRecon!;
-        for (let q = 0; q < c.reconSteps; q++) {
-          const o = (q * B + b) * W, r = q * W;
-          for (let i = 0; i < W; i++) pr[o + i] = recon[r + i]!;
-        }
-      }
+      if (this.prior) this.fillPrior(ref, win, b);
       normalise(this.stats, s, s);
       for (let t = 0; t < T + F; t++) {
         const o = (t * B + b) * W, q = t * W;
@@ -111,4 +101,35 @@ export class BatchBuilder {
     }
     return this.batch;
   }
+
+  /**
+   * Writes window b's stride prior steps and recon steps into the batch, computed once per window and
+   * kept (in the batch's precision, so cached and fresh values are the same bits) up to PRIOR_CACHE_BYTES.
+   */
+  private fillPrior(ref: WindowRef, win: Window, b: number): void {
+    const c = this.config, B = this.batch.size, W = c.nodes * 6, F = c.forecast, R = c.reconSteps, p = this.prior!;
+    const key = (ref.take * 2 ** 24 + ref.end) * 2 + (ref.mirrored ? 1 : 0);
+    let cached = this.priorCache.get(key) ?? null;
+    if (!cached) {
+      const H = win.historySteps, hist = p.history.subarray(0, H * W);
+      if (ref.mirrored) mirrorState(win.history, this.takes[ref.take]!.track.nodeMirror, hist);
+      else hist.set(win.history);
+      const steps = stridePriorSteps(c, this.stats, hist, H, p.steps, p.scratch);
+      const recon = strideReconSteps(c, this.stats, hist, H, p.recon, p.scratch);
+      const both: Buf = this.batch.prior instanceof Float64Array ? new Float64Array((F + R) * W) : new Float32Array((F + R) * W);
+      both.set(steps.subarray(0, F * W));
+      both.set(recon.subarray(0, R * W), F * W);
+      cached = both;
+      if (this.priorCacheBytes + both.byteLength <= PRIOR_CACHE_BYTES) {
+        this.priorCache.set(key, both);
+        this.priorCacheBytes += both.byteLength;
+      }
+    }
+    const prior = this.batch.prior!, pr = this.batch.priorRecon!;
+    for (let f = 0; f < F; f++) prior.set(cached.subarray(f * W, (f + 1) * W) as never, (f * B + b) * W);
+    for (let q = 0; q < R; q++) pr.set(cached.subarray((F + q) * W, (F + q + 1) * W) as never, (q * B + b) * W);
+  }
 }
+
+/** Most bytes of stride priors a batch builder keeps (a 32-walker cohort's windows need about 150 MB). */
+const PRIOR_CACHE_BYTES = 256 * 1024 * 1024;

@@ -2,7 +2,8 @@
 // own static factors and last dynamic factors from the posterior, rolls the dynamic factors forward with
 // the learned prior (with its noise), decodes the forecast steps from the last observed state (with the
 // stride prior's fixed steps from the observed part when the model has it on), and adds
-// the learned per-step noise (times the model's spread calibration). Samples and their mean are mapped
+// the learned per-step noise (times the model's spread calibration and, when the model has it, the
+// window's own backcast factor: spread.ts). Samples and their mean are mapped
 // back to world metres with the window's toWorld (so a mirrored window lands on its own take).
 import { denormalise, normalise } from '../motion/normalise.js';
 import { STATE_SIZE } from '../motion/reflect.js';
@@ -12,8 +13,8 @@ import type { Buf } from '../nn/types.js';
 import { observedPoints, pointOfStep, totalPoints } from './config.js';
 import { decoderFactors, decoderForward } from './decoder.js';
 import { encoderForward, type Batch } from './encoder.js';
-import { bandCoverage } from './metrics.js';
 import { stridePriorScratch, stridePriorSteps, type CouplingModel, type StridePriorScratch } from './model.js';
+import { backcastError, backcastScratch, spreadFactor, type BackcastScratch } from './spread.js';
 import { createWorkspace, type Workspace } from './workspace.js';
 
 /** Options of forecast. */
@@ -49,6 +50,8 @@ export interface Forecaster {
   encoderWs: Workspace;
   sampleWs: Workspace;
   batch: Batch;
+  /** Work arrays of the window's backcast error (the spread's per-window factor). */
+  backcast: BackcastScratch;
   /** With the stride prior: its steps tiled over the samples (forecast × samples × N × 6) and work arrays. */
   prior: { tiled: Buf; steps: Float64Array; scratch: StridePriorScratch } | null;
 }
@@ -63,14 +66,14 @@ export function createForecaster(model: CouplingModel, samples = 20): Forecaster
   const sampleWs = createWorkspace(model, samples);
   for (const rc of sampleWs.rollout) rc.keep = false;
   const prior = c.stridePrior ? { tiled: model.store.alloc(c.forecast * samples * W), steps: new Float64Array(c.forecast * W), scratch: stridePriorScratch(c) } : null;
-  return { model, sampleCount: samples, encoderWs: createWorkspace(model, 1), sampleWs, batch, prior };
+  return { model, sampleCount: samples, encoderWs: createWorkspace(model, 1), sampleWs, batch, prior, backcast: backcastScratch(c) };
 }
 
 /**
  * Returns the deterministic decoded paths of every sample (samples × steps × N × 6, normalised, before
  * the output noise) of the forecaster's sample workspace after encoding `win`; rng draws the factors.
  */
-function decodePaths(fc: Forecaster, win: Window, rng: Pcg32, staticFactors?: ForecastOptions['staticFactors']): Float64Array {
+export function decodePaths(fc: Forecaster, win: Window, rng: Pcg32, staticFactors?: ForecastOptions['staticFactors']): Float64Array {
   const { model, encoderWs: e, sampleWs: s, batch } = fc;
   const c = model.config, N = c.nodes, W = N * STATE_SIZE, T = c.observe, F = c.forecast, S = c.staticDims, D = c.dynamicDims;
   const K = observedPoints(c), Kt = totalPoints(c), P = e.pairs.count, Sm = fc.sampleCount, Z = S + D;
@@ -136,14 +139,14 @@ function decodePaths(fc: Forecaster, win: Window, rng: Pcg32, staticFactors?: Fo
   return paths;
 }
 
-/** Returns positions (steps × N × 3) of world state (steps × N × 6). */
-function positionsOf(state: Float64Array, out: Float64Array, offset: number): void {
+/** Writes positions (steps × N × 3) of world state (steps × N × 6) into out from `offset`. */
+export function positionsOf(state: Float64Array, out: Float64Array, offset: number): void {
   const n = state.length / STATE_SIZE;
   for (let i = 0; i < n; i++) for (let a = 0; a < 3; a++) out[offset + i * 3 + a] = state[i * STATE_SIZE + a]!;
 }
 
 /** Returns world state of normalised window state (steps × N × 6), through the window's frame. */
-function toWorld(fc: Forecaster, win: Window, state: Float64Array): Float64Array {
+export function toWorld(fc: Forecaster, win: Window, state: Float64Array): Float64Array {
   const out = denormalise(fc.model.stats, state, new Float64Array(state.length));
   return win.toWorld(out, out);
 }
@@ -155,7 +158,9 @@ export function forecast(model: CouplingModel, win: Window, options: ForecastOpt
   const rng = new Pcg32(options.seed ?? 1, 0x666f7265);
   const c = model.config, N = c.nodes, W = N * STATE_SIZE, F = c.forecast, Sm = fc.sampleCount;
   const paths = decodePaths(fc, win, rng, options.staticFactors);
-  const lv = model.params.lvRollout.value, k = model.spreadScale;
+  // The noise SD: the learned per-step SD times the calibrated scale and this window's backcast factor.
+  const lv = model.params.lvRollout.value;
+  const k = model.spreadScale * (model.spreadAdapt ? spreadFactor(model.spreadAdapt, backcastError(c, win.history, win.historySteps, fc.backcast)) : 1);
   const meanNorm = new Float64Array(F * W), one = new Float64Array(F * W);
   const samples = new Float64Array(Sm * F * N * 3);
   for (let m = 0; m < Sm; m++) {
@@ -170,44 +175,4 @@ export function forecast(model: CouplingModel, win: Window, options: ForecastOpt
   const mean = new Float64Array(F * N * 3);
   positionsOf(meanState, mean, 0);
   return { steps: F, nodeCount: N, sampleCount: Sm, mean, samples, meanState };
-}
-
-/**
- * Returns the spread scale (also stored in model.spreadScale) that makes the central `level` band of the
- * samples cover that share of the held-out windows' future positions, by bisection on a log scale.
- */
-export function calibrateSpread(model: CouplingModel, windows: readonly Window[], options: ForecastOptions & { level?: number } = {}): number {
-  const level = options.level ?? 0.9, fc = createForecaster(model, options.samples ?? 20);
-  const c = model.config, N = c.nodes, W = N * STATE_SIZE, F = c.forecast, Sm = fc.sampleCount;
-  const lv = model.params.lvRollout.value;
-  const cases = windows.filter((w) => w.futureSteps === F).map((win, i) => {
-    const rng = new Pcg32((options.seed ?? 1) + i, 0x63616c);
-    const paths = decodePaths(fc, win, rng);
-    const eps = new Float64Array(paths.length);
-    rng.fillGauss(eps);
-    const truth = new Float64Array(F * N * 3);
-    positionsOf(win.toWorld(Float64Array.from(win.future), new Float64Array(win.future.length)), truth, 0);
-    return { win, paths, eps, truth };
-  });
-  if (cases.length === 0) return model.spreadScale;
-  const coverage = (k: number): number => {
-    let sum = 0;
-    const one = new Float64Array(F * W), pos = new Float64Array(Sm * F * N * 3);
-    for (const cs of cases) {
-      for (let m = 0; m < Sm; m++) {
-        for (let i = 0; i < F * W; i++) one[i] = cs.paths[m * F * W + i]! + k * Math.exp(0.5 * lv[i]!) * cs.eps[m * F * W + i]!;
-        positionsOf(toWorld(fc, cs.win, one), pos, m * F * N * 3);
-      }
-      sum += bandCoverage(pos, Sm, cs.truth, level);
-    }
-    return sum / cases.length;
-  };
-  let lo = Math.log(1e-3), hi = Math.log(1e3);
-  for (let it = 0; it < 30; it++) {
-    const mid = 0.5 * (lo + hi);
-    if (coverage(Math.exp(mid)) < level) lo = mid;
-    else hi = mid;
-  }
-  model.spreadScale = Math.exp(0.5 * (lo + hi));
-  return model.spreadScale;
 }

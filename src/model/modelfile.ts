@@ -11,6 +11,7 @@ import { statsFromJson, statsToJson, type MotionStatsJson } from '../motion/norm
 import { writeFileAtomic } from '../util/atomic.js';
 import { resolveModelConfig, type ModelConfig } from './config.js';
 import { createModel, type CouplingModel } from './model.js';
+import type { SpreadAdapt } from './spread.js';
 import type { TrainingSummary } from './train.js';
 
 /** Format tag and schema version of model files. */
@@ -25,6 +26,8 @@ export interface ModelFileJson {
   config: ModelConfig;
   stats: MotionStatsJson;
   spreadScale: number;
+  /** How the noise SD follows each window's backcast error (absent in files written before it: a fixed spread). */
+  spreadAdapt?: SpreadAdapt | null;
   training: TrainingSummary | null;
   /** Extra data other layers store with the model (e.g. normative factor statistics); plain JSON. */
   extras: Record<string, unknown>;
@@ -40,7 +43,7 @@ export function modelToJson(model: CouplingModel, training: TrainingSummary | nu
   if (!littleEndian()) swap32(bytes);
   return {
     format: MODEL_FORMAT, version: MODEL_VERSION, nodes: [...model.stats.nodes], config: { ...model.config },
-    stats: statsToJson(model.stats), spreadScale: model.spreadScale, training, extras,
+    stats: statsToJson(model.stats), spreadScale: model.spreadScale, spreadAdapt: model.spreadAdapt, training, extras,
     layout: model.store.params.map((p) => ({ name: p.name, shape: [...p.shape] })),
     weights: { dtype: 'float32', count: f32.length, sha256: createHash('sha256').update(bytes).digest('hex'), base64: bytes.toString('base64') },
   };
@@ -114,6 +117,12 @@ export function modelFromJson(value: unknown, source: string): LoadedModel {
   const spread = v.spreadScale;
   if (typeof spread !== 'number' || !(spread > 0) || !Number.isFinite(spread)) bad('spreadScale must be a finite positive number');
   model.spreadScale = spread!;
+  const adapt = v.spreadAdapt;
+  if (adapt !== undefined && adapt !== null) {
+    if (typeof adapt !== 'object' || typeof adapt.exponent !== 'number' || typeof adapt.reference !== 'number' || !(adapt.exponent >= 0 && adapt.exponent <= 4) || !(adapt.reference > 0) || !Number.isFinite(adapt.reference))
+      bad('spreadAdapt must hold an exponent in 0..4 and a finite positive reference');
+    model.spreadAdapt = { exponent: adapt.exponent, reference: adapt.reference };
+  }
   const extras = typeof v.extras === 'object' && v.extras !== null ? v.extras : {};
   return { model, training: (v.training ?? null) as TrainingSummary | null, extras };
 }

@@ -1,12 +1,12 @@
 // Fitting the coupling model and its no-coupling twin on the same takes and budget, then calibrating
 // the spread of each on the held-out subjects' windows, as `jointloom fit` stores them.
-import type { Track } from '../motion/track.js';
-import { windowsOf } from '../motion/window.js';
+import { windowsOf, type Window } from '../motion/window.js';
 import type { TrainingTake } from './batch.js';
-import { calibrateSpread } from './forecast.js';
+import { calibrateSpread } from './calibrate.js';
 import type { CouplingModel } from './model.js';
 import { modelFromJson, modelToJson, saveModel, type LoadedModel } from './modelfile.js';
 import { modelWindowOptions } from './config.js';
+import { heldOutSplit } from './split.js';
 import { trainParallel } from './parallel.js';
 import { train, type TrainOptions, type TrainProgress, type TrainingSummary } from './train.js';
 
@@ -19,15 +19,19 @@ export interface FittedPair {
   spread: { model: number; twin: number | null };
 }
 
-/** Returns held-out windows (every `stride` steps) of the takes of the given subjects. */
-function heldOutWindows(takes: readonly TrainingTake[], subjects: readonly string[], model: CouplingModel, stride: number) {
-  const c = model.config;
-  const out = [];
-  for (const t of takes) {
-    if (!subjects.includes(t.subject)) continue;
-    for (const w of windowsOf(t.track as Track, stride, modelWindowOptions(c))) if (w.futureSteps === c.forecast) out.push(w);
-  }
+/** Returns the held-out windows (every `stride` steps, each with its full causal history) of the run's held-out takes. */
+export function heldOutWindows(takes: readonly TrainingTake[], options: TrainOptions, model: CouplingModel, stride: number): Window[] {
+  const c = model.config, first = c.stridePrior ? c.priorHistory : c.observe;
+  const split = heldOutSplit(takes, c, options.validSubjects, options.batchSize ?? 16, options.windowStride ?? 3);
+  const out: Window[] = [];
+  for (const t of split.valid)
+    for (const w of windowsOf(t.track, stride, modelWindowOptions(c))) if (w.futureSteps === c.forecast && w.endObservedStep >= first) out.push(w);
   return out;
+}
+
+/** Returns the steps between calibration windows: every 15 (0.5 s) of held-out subjects, every 5 of a take's short tail. */
+export function calibrationStride(summary: TrainingSummary | null): number {
+  return summary?.heldOut === 'tail' ? 5 : 15;
 }
 
 /** Options of fitPair: training options, the twin switch, worker threads and progress hooks. */
@@ -55,7 +59,7 @@ export async function fitPair(takes: readonly TrainingTake[], options: FitPairOp
     twinSummary = r.summary;
   }
   options.onPhase?.('calibrate');
-  const wins = heldOutWindows(takes, summary.validSubjects, model, 15);
+  const wins = heldOutWindows(takes, options, model, calibrationStride(summary));
   const spread = { model: wins.length ? calibrateSpread(model, wins) : model.spreadScale, twin: twin && wins.length ? calibrateSpread(twin, wins) : null };
   return { model, summary, twin, twinSummary, spread };
 }

@@ -1,7 +1,8 @@
 // Training of the coupling model: normalisation statistics from the training takes (mirror-symmetric),
-// a split of held-out subjects (by subject, never by window), seeded shuffles into batches (pairs of
-// windows of one take under match pairing, each pair mirrored or not), Adam with global-norm clipping,
-// and early stopping on the held-out loss with the best weights kept.
+// a split of held-out subjects (by subject, never by window; with one subject only, each take's tail in
+// time: split.ts), seeded shuffles into batches (pairs of windows of one take under match pairing, each
+// pair mirrored or not), Adam with global-norm clipping, and early stopping on the held-out forecast error
+// with the best weights kept.
 //
 // Determinism: every random draw comes from PCG32 streams derived from the seed, and each step computes
 // the gradients of its sub-batches (shards) one after another into their own buffers, then sums them
@@ -19,6 +20,7 @@ import { resolveModelConfig, type ModelConfig } from './config.js';
 import { elboBackward, elboForward, type LossReport } from './elbo.js';
 import { createModel, type CouplingModel } from './model.js';
 import { clampNoise, initNoiseFromData } from './noise.js';
+import { heldOutSplit, type HeldOutKind } from './split.js';
 import { forecastProbe, probeError } from './validate.js';
 import { createWorkspace, type Workspace } from './workspace.js';
 
@@ -49,7 +51,10 @@ export interface TrainOptions {
   windowStride?: number;
   /** Cap on steps per epoch (default: all windows once). */
   maxStepsPerEpoch?: number;
-  /** Subjects held out for early stopping; default: every fifth subject in sorted order (at least one when there are two or more). */
+  /**
+   * Subjects held out for early stopping; default: every fifth subject in sorted order (at least one when
+   * there are two or more), or with one subject only the last quarter of each take in time (split.ts).
+   */
   validSubjects?: readonly string[];
   /** Epochs without a better held-out loss before stopping (default 3). */
   patience?: number;
@@ -73,6 +78,8 @@ export interface TrainingSummary {
   bestEpoch: number;
   trainSubjects: string[];
   validSubjects: string[];
+  /** Whole subjects held out, or (one subject only) each take's tail in time; absent in older files: subjects. */
+  heldOut?: HeldOutKind;
   trainWindows: number;
   validWindows: number;
   trainLoss: number[];
@@ -93,17 +100,6 @@ export function statsOfTakes(takes: readonly TrainingTake[], config: ModelConfig
     for (const t of takes) if (t.track.steps > config.observe + config.forecast) yield* windowsOf(t.track, stride, { observe: config.observe, forecast: config.forecast });
   }
   return statsOfWindows(all(), t0.track.nodes, { nodeMirror: t0.track.nodeMirror });
-}
-
-/** Returns the held-out subjects: the given list, or every fifth subject of the sorted set. */
-function splitSubjects(takes: readonly TrainingTake[], given: readonly string[] | undefined): Set<string> {
-  if (given) return new Set(given);
-  const subjects = [...new Set(takes.map((t) => t.subject))].sort();
-  const valid = new Set<string>();
-  if (subjects.length < 2) return valid;
-  subjects.forEach((s, i) => { if (i % 5 === 4) valid.add(s); });
-  if (valid.size === 0) valid.add(subjects[subjects.length - 1]!);
-  return valid;
 }
 
 /** Returns refs in a seeded Fisher-Yates order. */
@@ -212,6 +208,8 @@ export interface TrainingContext {
   validTakes: TrainingTake[];
   batchSize: number;
   shards: number;
+  /** How the held-out takes were chosen. */
+  split: HeldOutKind;
   /** The sequential step runner (its first shard's buffers also serve validation). */
   runner: StepRunner;
 }
@@ -233,8 +231,8 @@ export function prepareTraining(takes: readonly TrainingTake[], options: TrainOp
   if (config.matchPairing && (B / shards) % 2 !== 0) throw new RangeError('under match pairing each shard needs an even number of windows');
   const off = takes.find((t) => t.track.rate !== config.rate || t.track.nodeCount !== config.nodes);
   if (off) throw new InputError(`${off.track.path}: the track has ${off.track.nodeCount} nodes at ${off.track.rate} Hz; the model needs ${config.nodes} nodes at ${config.rate} Hz`);
-  const validSet = splitSubjects(takes, options.validSubjects);
-  const trainTakes = takes.filter((t) => !validSet.has(t.subject)), validTakes = takes.filter((t) => validSet.has(t.subject));
+  const split = heldOutSplit(takes, config, options.validSubjects, B, options.windowStride ?? 3);
+  const trainTakes = split.train, validTakes = split.valid;
   if (trainTakes.length === 0) throw new InputError('every take belongs to a held-out subject; nothing is left to train on');
   const stats = options.stats ?? statsOfTakes(trainTakes, config);
   const model = createModel(config, stats, { seed });
@@ -247,7 +245,7 @@ export function prepareTraining(takes: readonly TrainingTake[], options: TrainOp
   initNoiseFromData(model, probeShard.ws, (function* () {
     for (const b of probe) for (let i = 0; i < shards; i++) yield probeShard.builder.fill(b.refs.slice(i * per, (i + 1) * per), b.groups.slice(i * per, (i + 1) * per));
   })());
-  return { model, trainTakes, validTakes, batchSize: B, shards, runner };
+  return { model, trainTakes, validTakes, split: split.kind, batchSize: B, shards, runner };
 }
 
 /**
@@ -256,12 +254,14 @@ export function prepareTraining(takes: readonly TrainingTake[], options: TrainOp
  * trained model (best held-out weights) and the summary.
  */
 export function* trainingLoop(ctx: TrainingContext, options: TrainOptions = {}): Generator<StepRequest, { model: CouplingModel; summary: TrainingSummary }, number> {
-  const { model, trainTakes, validTakes, batchSize: B, shards, runner } = ctx;
+  const { model, trainTakes, validTakes, split, batchSize: B, shards, runner } = ctx;
   const config = model.config, stats = model.stats;
   const seed = options.seed ?? 1, epochs = options.epochs ?? 20;
   const stride = options.windowStride ?? 3;
   const trainRefs = windowRefs(trainTakes, config, stride);
-  const validRefs = windowRefs(validTakes, config, stride * 5);
+  // Held-out windows with their full causal history; a take's tail is short, so it gives every window.
+  const firstValid = config.stridePrior ? config.priorHistory : config.observe;
+  const validRefs = windowRefs(validTakes, config, split === 'tail' ? stride : stride * 5).filter((r) => r.end >= firstValid);
   const validRunner = validTakes.length ? { ws: runner.shards[0]!.ws, builder: new BatchBuilder(config, stats, validTakes, B / shards, model.store) } : null;
   const validBatches = validRunner ? makeBatches(validRefs, B / shards, config.matchPairing, false, new Pcg32(seed, 0x7661)).slice(0, 16) : [];
   const adam = new Adam(model.store.size, { lr: options.learningRate ?? 2e-3 }, model.store.values);
@@ -271,12 +271,12 @@ export function* trainingLoop(ctx: TrainingContext, options: TrainOptions = {}):
   const noiseBase = (seed % 2 ** 29) * 2 ** 24;
   const summary: TrainingSummary = {
     seed, epochs: 0, steps: 0, bestEpoch: -1, trainSubjects: [...new Set(trainTakes.map((t) => t.subject))].sort(),
-    validSubjects: [...new Set(validTakes.map((t) => t.subject))].sort(),
+    validSubjects: [...new Set(validTakes.map((t) => t.subject))].sort(), heldOut: split,
     trainWindows: trainRefs.length, validWindows: validRefs.length, trainLoss: [], validLoss: [], best: null, msPerStep: NaN,
     stopOn: options.stopOn ?? 'forecast', validForecastMm: [],
   };
   let best = Infinity, bestWeights: Buf | null = null, stale = 0, ms = 0, validLoss = NaN;
-  const probe = summary.stopOn === 'forecast' && validTakes.length ? forecastProbe(model, validTakes.map((t) => t.track)) : null;
+  const probe = summary.stopOn === 'forecast' && validTakes.length ? forecastProbe(model, validTakes.map((t) => t.track), { everyS: split === 'tail' ? 0.5 : 2 }) : null;
   if (summary.stopOn === 'forecast' && !probe) summary.stopOn = 'loss';
   // The untrained start's figure is recorded for reference; only trained weights are candidates, so the
   // factors a model file carries are always learned ones.

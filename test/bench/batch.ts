@@ -7,18 +7,10 @@
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { availableParallelism, tmpdir } from 'node:os';
-import { join, resolve } from 'node:path';
+import { join } from 'node:path';
 import { synthesizeTake } from '../../src/synth/index.js';
+import { buildCli, builtCli, repo } from './built-cli.js';
 import { ratio, type Section } from './report.js';
-
-const repo = resolve(import.meta.dirname, '..', '..');
-const builtCli = join(repo, 'dist', 'cli', 'main.js');
-
-/** Compiles src/ into dist/ (tsc only; the viewer is not needed here). */
-function buildCli(): void {
-  const r = spawnSync(process.execPath, [join(repo, 'node_modules', 'typescript', 'bin', 'tsc'), '-p', join(repo, 'tsconfig.build.json')], { cwd: repo, encoding: 'utf8' });
-  if (r.status !== 0) throw new Error(`tsc -p tsconfig.build.json failed: ${(r.stdout + r.stderr).trim().split('\n')[0]}`);
-}
 
 /** Returns the batch's elapsed seconds for one run with `workers` threads into a fresh ledger. */
 function timeBatch(takes: string, workers: number, dir: string, rep: number): number {

@@ -20,6 +20,7 @@ const SECTIONS: SectionRunner[] = [
   async (input) => (await import('./viewer.js')).runViewer({ input }),
   async (_input, o) => (await import('./model-step.js')).runModelStep({ reps: o.quick ? 3 : 5 }),
   async (_input, o) => (await import('./batch.js')).runBatchBench({ reps: o.quick ? 1 : 3, cohort: o.quick ? 10 : 100 }),
+  async () => (await import('./fit.js')).runFitBench(),
 ];
 
 function parseArgs(argv: string[]): RunOptions {

@@ -1,0 +1,84 @@
+// Calibration of the forecast spread on held-out windows: for each exponent of a small grid
+// (spread.ts: the noise SD follows each window's backcast error to that power), the scale is set by
+// bisection so that the central 90 % band covers 90 % of the future positions; of those, the exponent
+// with the lowest mean interval score is kept (Gneiting and Raftery 2007, "Strictly proper scoring
+// rules, prediction, and estimation", JASA 102: the band's width plus 2/α times each miss beyond it; at
+// equal coverage, the sharper band that misses by less wins).
+import { STATE_SIZE } from '../motion/reflect.js';
+import type { Window } from '../motion/window.js';
+import { Pcg32 } from '../nn/prng.js';
+import { createForecaster, decodePaths, positionsOf, toWorld, type ForecastOptions } from './forecast.js';
+import type { CouplingModel } from './model.js';
+import { backcastError, backcastScratch, spreadFactor, SPREAD_EXPONENTS, type SpreadAdapt } from './spread.js';
+
+/** Returns the central `level` band's coverage and mean interval score of sampled positions against the truth. */
+function bandScore(samples: Float64Array, Sm: number, truth: Float64Array, level: number, col: Float64Array): { coverage: number; score: number } {
+  const L = truth.length, alpha = 1 - level, lo = alpha / 2, hi = 1 - lo;
+  let inside = 0, score = 0;
+  const q = (p: number) => {
+    const x = p * (Sm - 1), i = Math.floor(x), w = x - i;
+    return i + 1 < Sm ? col[i]! * (1 - w) + col[i + 1]! * w : col[i]!;
+  };
+  for (let c = 0; c < L; c++) {
+    for (let s = 0; s < Sm; s++) col[s] = samples[s * L + c]!;
+    col.subarray(0, Sm).sort();
+    const l = q(lo), u = q(hi), v = truth[c]!;
+    if (v >= l && v <= u) inside++;
+    score += u - l + (v < l ? (2 / alpha) * (l - v) : 0) + (v > u ? (2 / alpha) * (v - u) : 0);
+  }
+  return { coverage: inside / L, score: score / L };
+}
+
+/**
+ * Returns the spread scale (also stored in model.spreadScale, with the chosen adaptation in
+ * model.spreadAdapt) that makes the central `level` band of the samples cover that share of the held-out
+ * windows' future positions, for the exponent with the lowest interval score.
+ */
+export function calibrateSpread(model: CouplingModel, windows: readonly Window[], options: ForecastOptions & { level?: number; exponents?: readonly number[] } = {}): number {
+  const level = options.level ?? 0.9, fc = createForecaster(model, options.samples ?? 20);
+  const c = model.config, N = c.nodes, W = N * STATE_SIZE, F = c.forecast, Sm = fc.sampleCount;
+  const lv = model.params.lvRollout.value, scratch = backcastScratch(c);
+  const cases = windows.filter((w) => w.futureSteps === F).map((win, i) => {
+    const rng = new Pcg32((options.seed ?? 1) + i, 0x63616c);
+    const paths = decodePaths(fc, win, rng);
+    const eps = new Float64Array(paths.length);
+    rng.fillGauss(eps);
+    const truth = new Float64Array(F * N * 3);
+    positionsOf(win.toWorld(Float64Array.from(win.future), new Float64Array(win.future.length)), truth, 0);
+    return { win, paths, eps, truth, backcast: backcastError(c, win.history, win.historySteps, scratch) };
+  });
+  if (cases.length === 0) return model.spreadScale;
+  const known = cases.map((x) => x.backcast).filter(Number.isFinite).sort((a, b) => a - b);
+  const reference = known.length ? known[known.length >> 1]! : NaN;
+  const one = new Float64Array(F * W), pos = new Float64Array(Sm * F * N * 3), col = new Float64Array(Sm);
+  const evaluate = (k: number, adapt: SpreadAdapt | null) => {
+    let coverage = 0, score = 0;
+    for (const cs of cases) {
+      const g = k * spreadFactor(adapt, cs.backcast);
+      for (let m = 0; m < Sm; m++) {
+        for (let i = 0; i < F * W; i++) one[i] = cs.paths[m * F * W + i]! + g * Math.exp(0.5 * lv[i]!) * cs.eps[m * F * W + i]!;
+        positionsOf(toWorld(fc, cs.win, one), pos, m * F * N * 3);
+      }
+      const b = bandScore(pos, Sm, cs.truth, level, col);
+      coverage += b.coverage;
+      score += b.score;
+    }
+    return { coverage: coverage / cases.length, score: score / cases.length };
+  };
+  let best: { k: number; adapt: SpreadAdapt | null; score: number } | null = null;
+  for (const exponent of options.exponents ?? SPREAD_EXPONENTS) {
+    if (exponent !== 0 && !(reference > 0)) continue;
+    const adapt = exponent === 0 ? null : { exponent, reference };
+    let lo = Math.log(1e-3), hi = Math.log(1e3);
+    for (let it = 0; it < 24; it++) {
+      const mid = 0.5 * (lo + hi);
+      if (evaluate(Math.exp(mid), adapt).coverage < level) lo = mid;
+      else hi = mid;
+    }
+    const k = Math.exp(0.5 * (lo + hi)), { score } = evaluate(k, adapt);
+    if (!best || score < best.score) best = { k, adapt, score };
+  }
+  model.spreadScale = best!.k;
+  model.spreadAdapt = best!.adapt;
+  return model.spreadScale;
+}
