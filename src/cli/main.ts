@@ -36,13 +36,22 @@ export function buildProgram(): Command {
   return program;
 }
 
+/**
+ * Exits with `code` once everything written to stdout and stderr has left the process: on a pipe, Node
+ * queues what the pipe cannot take at once (64 KiB on Linux) and process.exit would drop it. The
+ * callback of an empty write runs after every earlier write of that stream.
+ */
+function exitAfterFlush(code: number): void {
+  process.stdout.write('', () => process.stderr.write('', () => process.exit(code)));
+}
+
 const isMain = process.argv[1] !== undefined && import.meta.url === new URL(`file://${process.argv[1]}`).href;
 if (isMain || process.argv[1]?.endsWith('/jointloom')) {
   runProgram(buildProgram(), process.argv).then(
-    (code) => process.exit(code),
+    (code) => exitAfterFlush(code),
     (err: unknown) => {
       process.stderr.write(`jointloom: internal error: ${err instanceof Error ? err.stack : String(err)}\n`);
-      process.exit(70);
+      exitAfterFlush(70);
     },
   );
 }
