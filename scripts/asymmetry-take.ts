@@ -4,7 +4,8 @@
 // coding, and what the factor probes need. Plain data out, so it can run in a worker thread.
 import { classicAsymmetry } from '../src/analysis/classic-asymmetry.js';
 import { classicPairCycles } from '../src/analysis/classic-couplings.js';
-import { couplingAsymmetry, storedCouplingNorms } from '../src/analysis/coupling-asymmetry.js';
+import { coupleNames, coupleVector, couplingAsymmetry, storedCouplingNorms } from '../src/analysis/coupling-asymmetry.js';
+import { storedJointProfiles } from '../src/analysis/joint-profiles.js';
 import { cycleFraction, takeFactors } from '../src/analysis/factors.js';
 import { dampJointRotations } from '../src/bvh/damp.js';
 import { analyzeGait, symmetryTable } from '../src/gait/analyze.js';
@@ -26,6 +27,12 @@ export interface AsymmetryTakeResult {
   ciHigh: number;
   side: 'left' | 'right';
   joint: string;
+  /** How joint and side were named (learned profiles when the model file holds them). */
+  attribution: 'profiles' | 'carried nodes';
+  /** Joint and side by the carried-node rule (equal to joint and side without profiles). */
+  nodeRule: { joint: string; side: 'left' | 'right' };
+  /** The signed couple vector the profiles read (couples × S). */
+  coupleVector: number[];
   /** Classic candidate scores by name (unsigned: larger = more asymmetric), null where not measurable. */
   classic: Record<string, number | null>;
   staticDims: number;
@@ -66,7 +73,10 @@ export function evaluateAsymmetryTake(subject: AsymmetrySubject, modelPath: stri
   const imported = resolveImported(name, take);
   const track = trackFromImported(imported, { rate: c.rate });
   const f = takeFactors(model, track);
-  const a = couplingAsymmetry(f, norms);
+  const profiles = storedJointProfiles(loaded.extras, coupleNames(), c.staticDims);
+  const a = couplingAsymmetry(f, norms, { profiles });
+  // The carried-node rule beside the learned profiles (the same reading when the model has none).
+  const rule = profiles ? couplingAsymmetry(f, norms, { replicates: 1 }) : a;
   const gait = analyzeGait(imported, { lowpassHz: DEFAULT_LOWPASS_HZ, steadyOnly: true });
   const classic: Record<string, number | null> = {};
   for (const [measure, e] of Object.entries(symmetryTable(gait))) classic[`SI ${measure}`] = e.symmetry_index_pct === null ? null : Math.abs(e.symmetry_index_pct);
@@ -95,7 +105,7 @@ export function evaluateAsymmetryTake(subject: AsymmetrySubject, modelPath: stri
   if (mirror) {
     const mt = mirrorTrack(track);
     const fm = takeFactors(model, mt);
-    const am = couplingAsymmetry(fm, norms);
+    const am = couplingAsymmetry(fm, norms, { profiles });
     const raw = takeFactors(model, track, { mirrorAverage: false }), rawM = takeFactors(model, mt, { mirrorAverage: false });
     let swapError = 0, rawSwapError = 0, lo = Infinity, hi = -Infinity;
     for (let p = 0; p < P; p++)
@@ -108,7 +118,8 @@ export function evaluateAsymmetryTake(subject: AsymmetrySubject, modelPath: stri
     mirrored = { score: am.score, side: am.side, swapError, rawSwapError, staticRange: hi - lo };
   }
   return {
-    id: subject.id, score: a.score, ciLow: a.ciLow, ciHigh: a.ciHigh, side: a.side, joint: a.joint, classic, staticDims: S, dynamicDims: D,
+    id: subject.id, score: a.score, ciLow: a.ciLow, ciHigh: a.ciHigh, side: a.side, joint: a.joint, attribution: a.attribution,
+    nodeRule: { joint: rule.joint, side: rule.side }, coupleVector: Array.from(coupleVector(f, norms)), classic, staticDims: S, dynamicDims: D,
     staticMean: Array.from(f.staticMean), staticWindows, dynamicWindows, phase, mirror: mirrored,
     warnings: imported.warnings,
   };

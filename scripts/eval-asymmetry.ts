@@ -132,6 +132,12 @@ function summarise(results: Map<string, AsymmetryTakeResult>) {
       return [k, counts];
     })),
   };
+  // The carried-node rule on the same subjects, beside the attribution the model file names (learned profiles when it holds them).
+  const attribution = results.get(impaired[0]!.id)!.attribution;
+  const nodeRule = {
+    side: rate(impaired.map((s) => results.get(s.id)!.nodeRule.side === s.side)).rate,
+    joint: rate(jointKinds.map((s) => results.get(s.id)!.nodeRule.joint === JOINT_OF_KIND[s.kind!])).rate,
+  };
   const severity = Object.fromEntries([...byKind(impaired)].map(([k, ss]) => [k, r3(spearman(ss.map((s) => s.severity), ss.map((s) => results.get(s.id)!.score)))]));
   // Probes on the static factors: severity from the absolute mirror differences of the take's means.
   const couples = mirrorCouples(), P = DEFAULT_PAIRS.count, S = results.get(cohort[0]!.id)!.staticDims, D = results.get(cohort[0]!.id)!.dynamicDims;
@@ -177,7 +183,7 @@ function summarise(results: Map<string, AsymmetryTakeResult>) {
   const sweepScores = sweep.map((s) => results.get(s.id)!.score);
   return {
     candidates: candidates.map((c) => c.family === 'coupling' ? 'coupling score' : `${c.family}: ${c.name}`),
-    auc: aucTable, side, joint, severity_spearman: severity,
+    auc: aucTable, side, joint, attribution, carried_node_rule: nodeRule, severity_spearman: severity,
     probes: { severity_r2: r3(sevProbe.r2), severity_subjects: probeSubjects.length, phase_r2: phase, static_icc: icc },
     mirror,
     symmetric: { score: r3(results.get(symmetric.id)!.score), control_p10: r3(quantile(controlScores, 0.1)) },
@@ -248,6 +254,7 @@ if (v.json) {
   out.push('', `side named: ${(main.side.all.rate * 100).toFixed(1)} % of ${main.side.all.n} (walker-made ${(main.side.synth.rate * 100).toFixed(1)} %, edited ${(main.side.edit.rate * 100).toFixed(1)} %, severities ≥ 20 % ${(main.side.severity20.rate * 100).toFixed(1)} %)`);
   out.push(`joint named: ${(main.joint.all.rate * 100).toFixed(1)} % (chance 25 %); per kind:`);
   for (const [k, x] of Object.entries(main.joint.perKind)) out.push(`  ${k.padEnd(16)} ${(x.rate * 100).toFixed(0).padStart(3)} %  named: ${Object.entries(main.joint.named[k]!).map(([j, n]) => `${j} ${n}`).join(', ')}`);
+  out.push(`joint and side named by ${main.attribution === 'profiles' ? 'the learned joint profiles (fitted on the development cohort, seeds 60000+)' : 'the carried-node rule'}; the carried-node rule on the same subjects: side ${(main.carried_node_rule.side * 100).toFixed(1)} %, joint ${(main.carried_node_rule.joint * 100).toFixed(1)} %`);
   out.push(`Spearman severity vs score: ${Object.entries(main.severity_spearman).map(([k, x]) => `${k} ${x}`).join(', ')}`);
   out.push(`probes: severity from static factors R² ${main.probes.severity_r2} (${main.probes.severity_subjects} subjects, grouped 5-fold ridge); gait phase from dynamic factors R² labelled ${main.probes.phase_r2.labelled}, other dimensions ${main.probes.phase_r2.other} (${main.probes.phase_r2.windows} windows); static ICC(1) median ${main.probes.static_icc.median}, 10th percentile ${main.probes.static_icc.p10}, share ≥ 0.9 ${main.probes.static_icc.share_at_least_0_9}`);
   out.push(`mirror: side flipped on ${(main.mirror.side_flipped * 100).toFixed(0)} % of ${main.mirror.takes}; largest factor swap difference median ${main.mirror.swap_error_median} mirror-averaged, ${main.mirror.raw_swap_error_median} raw encoder (factor range ${main.mirror.static_range_median}); score change median ${main.mirror.score_change_median}`);

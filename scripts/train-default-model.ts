@@ -17,6 +17,7 @@ import { calibrationStride, fitPair, heldOutWindows, savePair, twinOf } from '..
 import type { TrainingSummary } from '../src/model/train.js';
 import { normativeCohort, trainingCohort } from '../src/synth/cohort.js';
 import { COUPLING_NORMS_KEY, couplingNorms, type CouplingNorms } from '../src/analysis/coupling-asymmetry.js';
+import { JOINT_PROFILES_KEY } from '../src/analysis/joint-profiles.js';
 import type { CouplingModel } from '../src/model/model.js';
 import { takeFactors } from '../src/analysis/factors.js';
 import { cohortTrack } from './model-cohort.js';
@@ -50,8 +51,10 @@ if (v['norms-only']) {
   // Recompute only the normative coupling figures of an existing model file (weights untouched).
   const loaded = loadModel(output);
   const n = cohortNorms(loaded.model);
-  saveModel(output, loaded.model, loaded.training, { ...loaded.extras, [COUPLING_NORMS_KEY]: n });
-  console.log(`${output}: normative coupling figures from ${n.subjects} normal walkers (control take scores median ${n.controlScoreP50.toFixed(2)}, 90th percentile ${n.controlScoreP90.toFixed(2)})`);
+  // Joint prototypes are fitted on differences scaled by the old figures: they are dropped (refit them).
+  const { [JOINT_PROFILES_KEY]: stale, ...kept } = loaded.extras;
+  saveModel(output, loaded.model, loaded.training, { ...kept, [COUPLING_NORMS_KEY]: n });
+  console.log(`${output}: normative coupling figures from ${n.subjects} normal walkers (control take scores median ${n.controlScoreP50.toFixed(2)}, 90th percentile ${n.controlScoreP90.toFixed(2)})${stale ? '; its joint prototypes were fitted under the old figures and are dropped: run npm run fit:joint-profiles' : ''}`);
   process.exit(0);
 }
 if (v['spread-only']) {
@@ -101,4 +104,5 @@ else {
   console.log(`  twin: ${report.twin ? `${report.twin.epochs_run} epochs (best ${report.twin.best_epoch}), ${report.twin.ms_per_step} ms a step, held-out forecast error ${report.twin.valid_forecast_mm.join(' ')}` : 'none'}; spread scales ${pair.spread.model.toFixed(3)} / ${pair.spread.twin?.toFixed(3) ?? '-'}`);
   console.log(`  normative coupling figures from ${norms.subjects} normal walkers: control take scores median ${norms.controlScoreP50.toFixed(2)}, 90th percentile ${norms.controlScoreP90.toFixed(2)}`);
   console.log(`  whole fit ${report.total_s} s (cohort synthesis ${report.cohort_s} s)`);
+  console.log('  joint prototypes: none yet for these weights; run npm run fit:joint-profiles');
 }

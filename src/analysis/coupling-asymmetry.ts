@@ -12,6 +12,7 @@
 import { DEFAULT_PAIRS, MOTION_NODES } from '../motion/roles.js';
 import { Pcg32 } from '../nn/prng.js';
 import type { TakeFactors } from './factors.js';
+import { attributeByProfiles, type JointProfiles } from './joint-profiles.js';
 
 /** Normative static-factor figures per pair (pairs × S each), from control takes. */
 export interface CouplingNorms {
@@ -47,6 +48,10 @@ export interface CouplingAsymmetry {
   joint: JointGroup;
   ranked: PairAsymmetry[];
   joints: Record<JointGroup, number>;
+  /** How joint and side were named: learned joint profiles (joint-profiles.ts), or the carried-node rule. */
+  attribution: 'profiles' | 'carried nodes';
+  /** With profiles: per joint, how strongly the take's couple vector points along its prototypes (|cosine|). */
+  jointSimilarity: Record<JointGroup, number> | null;
   summary: string;
 }
 
@@ -133,6 +138,29 @@ function meanOfWindows(f: TakeFactors, windows: ArrayLike<number>, out: Float64A
   return out;
 }
 
+/** Returns the signed couple vector of mean static factors: (s(p) − s(m(p)) − μ) / σ per couple of mirrorCouples() and dimension. */
+function coupleVectorOf(s: Float64Array, S: number, norms: Pick<CouplingNorms, 'diffMean' | 'diffSd'>): Float64Array {
+  const couples = mirrorCouples(), out = new Float64Array(couples.length * S), mirror = DEFAULT_PAIRS.mirror;
+  couples.forEach((p, k) => {
+    for (let d = 0; d < S; d++) {
+      const i = p * S + d;
+      out[k * S + d] = (s[i]! - s[mirror[p]! * S + d]! - norms.diffMean[i]!) / norms.diffSd[i]!;
+    }
+  });
+  return out;
+}
+
+/** Returns a take's signed couple vector (joint-profiles.ts): its static factors' mean over every window against the norms. */
+export function coupleVector(f: TakeFactors, norms: CouplingNorms): Float64Array {
+  const mean = meanOfWindows(f, Int32Array.from(f.windowEnds, (_, w) => w), new Float64Array(f.pairs * f.staticDims));
+  return coupleVectorOf(mean, f.staticDims, norms);
+}
+
+/** Returns the names of the mirror couples (their first pair), in the order of coupleVector. */
+export function coupleNames(): string[] {
+  return mirrorCouples().map(pairName);
+}
+
 /** Returns the pair score of couple p from mean static factors. */
 function coupleScore(s: Float64Array, p: number, S: number, norms: Pick<CouplingNorms, 'diffMean' | 'diffSd'>): number {
   const m = DEFAULT_PAIRS.mirror[p]!;
@@ -161,7 +189,7 @@ function takeScore(scores: readonly number[]): number {
  * Returns the coupling asymmetry of a take: ranked couples with bootstrap intervals (`replicates`
  * resamples of blocks of `blockWindows` consecutive windows, seeded), side, joint and summary.
  */
-export function couplingAsymmetry(f: TakeFactors, norms: CouplingNorms, options: { replicates?: number; seed?: number; blockWindows?: number } = {}): CouplingAsymmetry {
+export function couplingAsymmetry(f: TakeFactors, norms: CouplingNorms, options: { replicates?: number; seed?: number; blockWindows?: number; profiles?: JointProfiles | null } = {}): CouplingAsymmetry {
   const S = f.staticDims;
   if (norms.staticDims !== S || norms.staticMean.length !== f.pairs * S) throw new RangeError('the normative coupling figures belong to another model');
   const couples = mirrorCouples(), n = f.windowEnds.length;
@@ -215,20 +243,23 @@ export function couplingAsymmetry(f: TakeFactors, norms: CouplingNorms, options:
     for (const g of groups) { sums[g].s += scores[k]!; sums[g].k++; }
   });
   const joints = Object.fromEntries(Object.entries(sums).map(([g, v]) => [g, v.k ? v.s / v.k : 0])) as Record<JointGroup, number>;
-  const joint = (Object.entries(joints) as [JointGroup, number][]).sort((a, b) => b[1] - a[1])[0]![0];
+  const byNodes = (Object.entries(joints) as [JointGroup, number][]).sort((a, b) => b[1] - a[1])[0]![0];
   // Side: the side whose nodes of that joint group lie farther from the cohort.
   let lean = 0;
   MOTION_NODES.forEach((name, n) => {
-    if (JOINT_OF[name.replace(/^[lr]_/, '')] !== joint) return;
+    if (JOINT_OF[name.replace(/^[lr]_/, '')] !== byNodes) return;
     if (name.startsWith('l_')) lean += nodeDev[n]!;
     if (name.startsWith('r_')) lean -= nodeDev[n]!;
   });
-  const side: 'left' | 'right' = lean >= 0 ? 'left' : 'right';
+  // With learned joint profiles, they name joint and side instead.
+  const learned = options.profiles ? attributeByProfiles(coupleVectorOf(mean, S, norms), options.profiles) : null;
+  const joint = learned?.joint ?? byNodes;
+  const side: 'left' | 'right' = learned?.side ?? (lean >= 0 ? 'left' : 'right');
   const score = takeScore(scores);
   const ciLow = q(bootTake, 0.025), ciHigh = q(bootTake, 0.975);
   const top = ranked[0]!;
   const summary = `Coupling asymmetry ${score.toFixed(2)} (95 % interval ${ciLow.toFixed(2)}-${ciHigh.toFixed(2)}; control takes: median ${norms.controlScoreP50.toFixed(2)}, 90th percentile ${norms.controlScoreP90.toFixed(2)}): the ${side} side lies farther from the cohort, most around the ${joint}; the largest difference is ${top.pair} against ${top.mirror} (${top.score.toFixed(2)}).`;
-  return { score, ciLow, ciHigh, side, joint, ranked, joints, summary };
+  return { score, ciLow, ciHigh, side, joint, ranked, joints, attribution: learned ? 'profiles' : 'carried nodes', jointSimilarity: learned?.similarity ?? null, summary };
 }
 
 /** The key of the normative figures among a model file's extras. */

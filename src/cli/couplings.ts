@@ -2,7 +2,8 @@
 // measures (continuous relative phase, vector coding) and the left/right coupling asymmetry against the
 // normative cohort stored in the model file.
 import type { Command } from 'commander';
-import { couplingAsymmetry, pairName, storedCouplingNorms, type CouplingAsymmetry } from '../analysis/coupling-asymmetry.js';
+import { coupleNames, couplingAsymmetry, pairName, storedCouplingNorms, type CouplingAsymmetry } from '../analysis/coupling-asymmetry.js';
+import { storedJointProfiles, type JointProfiles } from '../analysis/joint-profiles.js';
 import { classicCouplings } from '../analysis/classic-couplings.js';
 import { dynamicOverCycle, takeFactors, type TakeFactors } from '../analysis/factors.js';
 import { InputError } from '../errors/index.js';
@@ -31,6 +32,8 @@ const r3 = (v: number) => (Number.isFinite(v) ? Math.round(v * 1000) / 1000 : nu
 export function asymmetryJson(a: CouplingAsymmetry): Record<string, unknown> {
   return {
     score: r3(a.score), ci_low: r3(a.ciLow), ci_high: r3(a.ciHigh), side: a.side, joint: a.joint,
+    attribution: a.attribution,
+    joint_similarity: a.jointSimilarity ? Object.fromEntries(Object.entries(a.jointSimilarity).map(([k, v]) => [k, r3(v)])) : null,
     joints: Object.fromEntries(Object.entries(a.joints).map(([k, v]) => [k, r3(v)])),
     ranked: a.ranked.map((r) => ({ pair: r.pair, mirror: r.mirror, score: r3(r.score), ci_low: r3(r.ciLow), ci_high: r3(r.ciHigh), side: r.side })),
     summary: a.summary,
@@ -66,7 +69,7 @@ export function register(program: Command): void {
     const factors = takeFactors(model, track);
     let norms;
     try { norms = storedCouplingNorms(loaded.extras, factors.pairs, factors.staticDims); } catch (e) { throw new InputError(`${modelPath}: ${(e as Error).message}.`); }
-    const asym = norms ? couplingAsymmetry(factors, norms) : null;
+    const asym = norms ? couplingAsymmetry(factors, norms, { profiles: profilesOf(loaded.extras, factors.staticDims, modelPath) }) : null;
     const gait = analyzeGait(imported, { lowpassHz: DEFAULT_LOWPASS_HZ, steadyOnly: true });
     const classic = classicCouplings(gait);
     const contacts = (side: 'left' | 'right') => gait.detection.events.filter((e) => e.side === side && e.kind === 'initial_contact').map((e) => e.time);
@@ -95,7 +98,8 @@ export function register(program: Command): void {
     if (asym) {
       lines.push(`  ${asym.summary}`, '  largest pair differences (score, 95 % interval, side farther from the cohort):');
       for (const r of asym.ranked.slice(0, 8)) lines.push(`    ${r.pair.padEnd(24)} vs ${r.mirror.padEnd(24)} ${r.score.toFixed(2).padStart(6)}  ${r.ciLow.toFixed(2)}-${r.ciHigh.toFixed(2)}  ${r.side}`);
-      lines.push(`  by joint: ${Object.entries(asym.joints).map(([k, v]) => `${k} ${v.toFixed(2)}`).join(', ')}`, '    (each joint scored by the couples of the nodes it carries: hip the knee, knee the ankle, ankle the toe, shoulder the elbow and wrist)');
+      if (asym.jointSimilarity) lines.push(`  joint and side named by the model's learned joint prototypes; similarity: ${Object.entries(asym.jointSimilarity).map(([k, v]) => `${k} ${v.toFixed(2)}`).join(', ')}`);
+      lines.push(`  by joint: ${Object.entries(asym.joints).map(([k, v]) => `${k} ${v.toFixed(2)}`).join(', ')}`, `    (each joint scored by the couples of the nodes it carries: hip the knee, knee the ankle, ankle the toe, shoulder the elbow and wrist${asym.jointSimilarity ? '' : '; this names the joint'})`);
     } else lines.push(`  ${modelPath} holds no normative coupling figures, so no asymmetry is scored`);
     lines.push('  classic left-right differences, 95 % bootstrap intervals over cycles:');
     const fmt = (v: number | null, ci: [number, number] | null | undefined) => (v === null ? '–' : `${v.toFixed(1)}${ci ? ` (${ci[0].toFixed(1)}-${ci[1].toFixed(1)})` : ''}`);
@@ -105,4 +109,13 @@ export function register(program: Command): void {
     emit(lines.join('\n'));
   });
   program.addCommand(cmd);
+}
+
+/** Returns the joint profiles stored in the model file (null without), or throws InputError naming the file when they do not fit. */
+function profilesOf(extras: Record<string, unknown>, staticDims: number, modelPath: string): JointProfiles | null {
+  try {
+    return storedJointProfiles(extras, coupleNames(), staticDims);
+  } catch (e) {
+    throw new InputError(`${modelPath}: ${(e as Error).message}.`);
+  }
 }

@@ -1,7 +1,8 @@
 // The coupling stage of scoring: left/right coupling asymmetry of the take's static pair factors against
 // the normative cohort stored in the model file (src/analysis/coupling-asymmetry.ts). A take is flagged
 // when its score lies above the controls' 90th percentile. Skipped without a model or without figures.
-import { couplingAsymmetry, storedCouplingNorms } from '../analysis/coupling-asymmetry.js';
+import { coupleNames, couplingAsymmetry, storedCouplingNorms } from '../analysis/coupling-asymmetry.js';
+import { storedJointProfiles } from '../analysis/joint-profiles.js';
 import { takeFactors } from '../analysis/factors.js';
 import { cachedModel, modelTrack } from './model-cache.js';
 import type { ScoreStage, StageResult } from './stages.js';
@@ -21,7 +22,7 @@ export const COUPLING_STAGE: ScoreStage = {
     if (!norms) return { metrics: empty(), detail: { model: ctx.modelFile }, warnings: [`${ctx.modelFile} holds no normative coupling figures; no coupling asymmetry was scored`] };
     const track = modelTrack(ctx, c.rate);
     if (track.steps <= c.observe) return { metrics: empty(), usedModel: true, detail: { model: ctx.modelFile }, warnings: [`the take is too short for coupling factors (it needs more than ${(c.observe / c.rate).toFixed(1)} s)`] };
-    const a = couplingAsymmetry(takeFactors(model, track), norms);
+    const a = couplingAsymmetry(takeFactors(model, track), norms, { profiles: storedJointProfiles(loaded.extras, coupleNames(), c.staticDims) });
     const flagged = a.score > norms.controlScoreP90;
     return {
       metrics: { asymmetry_score: a.score, asymmetry_ci_low: a.ciLow, asymmetry_ci_high: a.ciHigh, side_right: a.side === 'right' ? 1 : 0, control_p90: norms.controlScoreP90 },

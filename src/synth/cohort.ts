@@ -159,6 +159,25 @@ export function impairmentOf(kind: AsymmetryKind, severity: number, compensate: 
   }
 }
 
+/** Seeds of an asymmetry cohort: walkers (controls and walker-made impairments), edited walkers, and the side and severity draws. */
+export interface AsymmetrySeeds { walkers: number; edited: number; pick: number }
+const VALIDATION_SEEDS: AsymmetrySeeds = { walkers: 40000, edited: 50000, pick: 4242 };
+
+/** The walker-made kinds that narrow one joint's range (the arm swing counts as the shoulder's). */
+export const JOINT_RANGE_KINDS: readonly AsymmetryKind[] = ['knee', 'hip', 'ankle', 'arm'];
+
+/**
+ * Returns the joint-profile development cohort (seeds 60000+ and 65000+, disjoint from every other
+ * cohort, the validation cohort included): the joint-range kinds only (knee, hip, ankle range and arm
+ * swing by the walker; hip, knee, ankle and shoulder narrowed afterwards), `perStratum` subjects per
+ * kind and severity stratum, random sides. The joint attribution's profiles are fitted on it
+ * (src/analysis/joint-profiles.ts), never on the validation cohort.
+ */
+export function jointProfileCohort(perStratum = 8, duration = 30): AsymmetrySubject[] {
+  return asymmetryCohort({ controls: 0, perStratum, editPerStratum: perStratum, duration, kinds: JOINT_RANGE_KINDS, seeds: { walkers: 60000, edited: 65000, pick: 6161 }, prefix: 'D' });
+}
+
+
 /**
  * Returns the asymmetry validation cohort (seeds 40000+ and 50000+, disjoint from the training and
  * held-out cohorts): `controls` walkers with natural left/right differences of scale 0.5-1.5; per
@@ -166,31 +185,31 @@ export function impairmentOf(kind: AsymmetryKind, severity: number, compensate: 
  * and per edited joint and stratum, `editPerStratum` normal walkers whose take is narrowed afterwards
  * (the edit itself is the script's: src/bvh/damp.ts).
  */
-export function asymmetryCohort(o: { controls?: number; perStratum?: number; editPerStratum?: number; duration?: number } = {}): AsymmetrySubject[] {
-  const duration = o.duration ?? 30, out: AsymmetrySubject[] = [];
-  const pick = new Mulberry32(4242);
+export function asymmetryCohort(o: { controls?: number; perStratum?: number; editPerStratum?: number; duration?: number; seeds?: AsymmetrySeeds; kinds?: readonly AsymmetryKind[]; prefix?: string } = {}): AsymmetrySubject[] {
+  const duration = o.duration ?? 30, out: AsymmetrySubject[] = [], seeds = o.seeds ?? VALIDATION_SEEDS, prefix = o.prefix ?? 'V';
+  const pick = new Mulberry32(seeds.pick);
   let i = 0;
-  const id = (prefix: string) => `${prefix}${String(out.length + 1).padStart(3, '0')}`;
+  const id = (kind: string) => `${prefix}${kind}${String(out.length + 1).padStart(3, '0')}`;
   for (let k = 0; k < (o.controls ?? 80); k++, i++) {
-    const opts = subjectOptions(40000 + i, duration, 60);
+    const opts = subjectOptions(seeds.walkers + i, duration, 60);
     opts.asymmetry = round3(0.5 + pick.next());
-    out.push({ id: id('VC'), arm: 'control', kind: null, side: null, severity: 0, options: opts });
+    out.push({ id: id('C'), arm: 'control', kind: null, side: null, severity: 0, options: opts });
   }
-  for (const kind of ASYMMETRY_KINDS)
+  for (const kind of o.kinds ?? ASYMMETRY_KINDS)
     for (const [lo, hi] of SEVERITY_STRATA)
       for (let k = 0; k < (o.perStratum ?? 8); k++, i++) {
-        const opts = subjectOptions(40000 + i, duration, 60);
+        const opts = subjectOptions(seeds.walkers + i, duration, 60);
         const side = pick.next() < 0.5 ? 'left' : 'right', severity = round3(lo + (hi - lo) * pick.next());
         opts.impairments = { [side]: impairmentOf(kind, severity, k % 2 === 0) };
-        out.push({ id: id('VI'), arm: 'synth', kind, side, severity, options: opts });
+        out.push({ id: id('I'), arm: 'synth', kind, side, severity, options: opts });
       }
   let j = 0;
   for (const joint of EDITED_JOINTS)
     for (const [lo, hi] of SEVERITY_STRATA)
       for (let k = 0; k < (o.editPerStratum ?? 8); k++, j++) {
-        const opts = subjectOptions(50000 + j, duration, 60);
+        const opts = subjectOptions(seeds.edited + j, duration, 60);
         const side = pick.next() < 0.5 ? 'left' : 'right', severity = round3(lo + (hi - lo) * pick.next());
-        out.push({ id: id('VE'), arm: 'edit', kind: joint, side, severity, options: opts });
+        out.push({ id: id('E'), arm: 'edit', kind: joint, side, severity, options: opts });
       }
   return out;
 }

@@ -2,7 +2,8 @@
 // (both orders averaged), as static heat (KL of the static posterior from its prior) and dynamic heat per
 // window (size of the dynamic factors), with the ranked coupling asymmetry when the model holds
 // normative figures. Computed once, on the first request.
-import { couplingAsymmetry, storedCouplingNorms } from '../analysis/coupling-asymmetry.js';
+import { coupleNames, couplingAsymmetry, storedCouplingNorms } from '../analysis/coupling-asymmetry.js';
+import { storedJointProfiles } from '../analysis/joint-profiles.js';
 import { staticKl, takeFactors } from '../analysis/factors.js';
 import type { LoadedModel } from '../model/modelfile.js';
 import { pairIndex } from '../motion/roles.js';
@@ -39,7 +40,7 @@ export function viewFactors(track: Track, loaded: LoadedModel, nodeJoints: reado
       pairs.push({ a: nodeJoints[i]![0], b: nodeJoints[j]![0], label: `${track.nodes[i]}–${track.nodes[j]}`, static: r4(st), dynamic: dyn });
     }
   const norms = storedCouplingNorms(loaded.extras, P, S);
-  const a = norms ? couplingAsymmetry(f, norms) : null;
+  const a = norms ? couplingAsymmetry(f, norms, { profiles: storedJointProfiles(loaded.extras, coupleNames(), S) }) : null;
   return {
     format: 'jointloom-view-factors', version: 1,
     times: Array.from(f.times, (t) => r4(t)), pairs,

@@ -1,0 +1,43 @@
+// The invented cohorts of src/synth/cohort.ts: every cohort draws its walkers from its own seeds, so no
+// walker the model trains on, or the joint prototypes are fitted on, appears in an evaluation; the
+// joint-profile development cohort holds the joint-range kinds only, in both arms, on both sides.
+import { describe, expect, it } from 'vitest';
+import { asymmetryCohort, heldOutCohort, JOINT_RANGE_KINDS, jointProfileCohort, normativeCohort, trainingCohort } from '../../src/synth/cohort.js';
+
+describe('cohorts', () => {
+  const seeds = {
+    training: trainingCohort().map((s) => s.options.seed),
+    normative: normativeCohort().map((s) => s.options.seed),
+    heldOut: heldOutCohort().map((s) => s.options.seed),
+    validation: asymmetryCohort().map((s) => s.options.seed),
+    development: jointProfileCohort().map((s) => s.options.seed),
+  };
+
+  it('never share a walker seed', () => {
+    const entries = Object.entries(seeds);
+    for (const [a, xs] of entries)
+      for (const [b, ys] of entries) {
+        if (a >= b) continue;
+        const set = new Set(xs);
+        expect(ys.filter((y) => set.has(y)), `${a} and ${b}`).toEqual([]);
+      }
+  });
+
+  it('give the joint-profile development cohort 8 subjects per joint-range kind and stratum in each arm', () => {
+    const dev = jointProfileCohort();
+    // 4 walker-made kinds × 3 strata × 8 + 4 edited joints × 3 strata × 8.
+    expect(dev).toHaveLength(192);
+    expect(new Set(dev.filter((s) => s.arm === 'synth').map((s) => s.kind))).toEqual(new Set(JOINT_RANGE_KINDS));
+    expect(new Set(dev.filter((s) => s.arm === 'edit').map((s) => s.kind))).toEqual(new Set(['hip', 'knee', 'ankle', 'shoulder']));
+    expect(dev.some((s) => s.side === 'left') && dev.some((s) => s.side === 'right')).toBe(true);
+    expect(dev.every((s) => s.arm !== 'control' && s.id.startsWith('D'))).toBe(true);
+  });
+
+  it('keeps the validation cohort as before (ids and seeds of its first and last subjects)', () => {
+    const v = asymmetryCohort();
+    expect(v).toHaveLength(320);
+    expect([v[0]!.id, v[0]!.options.seed]).toEqual(['VC001', 40000]);
+    expect([v[80]!.id, v[80]!.options.seed]).toEqual(['VI081', 40080]);
+    expect([v[319]!.id, v[319]!.options.seed]).toEqual(['VE320', 50095]);
+  });
+});
