@@ -8,26 +8,9 @@ import { STATE_SIZE } from '../motion/reflect.js';
 import type { Window } from '../motion/window.js';
 import { Pcg32 } from '../nn/prng.js';
 import { createForecaster, decodePaths, positionsOf, toWorld, type ForecastOptions } from './forecast.js';
+import { bandStats } from './metrics.js';
 import type { CouplingModel } from './model.js';
 import { backcastError, backcastScratch, spreadFactor, SPREAD_EXPONENTS, type SpreadAdapt } from './spread.js';
-
-/** Returns the central `level` band's coverage and mean interval score of sampled positions against the truth. */
-function bandScore(samples: Float64Array, Sm: number, truth: Float64Array, level: number, col: Float64Array): { coverage: number; score: number } {
-  const L = truth.length, alpha = 1 - level, lo = alpha / 2, hi = 1 - lo;
-  let inside = 0, score = 0;
-  const q = (p: number) => {
-    const x = p * (Sm - 1), i = Math.floor(x), w = x - i;
-    return i + 1 < Sm ? col[i]! * (1 - w) + col[i + 1]! * w : col[i]!;
-  };
-  for (let c = 0; c < L; c++) {
-    for (let s = 0; s < Sm; s++) col[s] = samples[s * L + c]!;
-    col.subarray(0, Sm).sort();
-    const l = q(lo), u = q(hi), v = truth[c]!;
-    if (v >= l && v <= u) inside++;
-    score += u - l + (v < l ? (2 / alpha) * (l - v) : 0) + (v > u ? (2 / alpha) * (v - u) : 0);
-  }
-  return { coverage: inside / L, score: score / L };
-}
 
 /**
  * Returns the spread scale (also stored in model.spreadScale, with the chosen adaptation in
@@ -59,7 +42,7 @@ export function calibrateSpread(model: CouplingModel, windows: readonly Window[]
         for (let i = 0; i < F * W; i++) one[i] = cs.paths[m * F * W + i]! + g * Math.exp(0.5 * lv[i]!) * cs.eps[m * F * W + i]!;
         positionsOf(toWorld(fc, cs.win, one), pos, m * F * N * 3);
       }
-      const b = bandScore(pos, Sm, cs.truth, level, col);
+      const b = bandStats(pos, Sm, cs.truth, level, col);
       coverage += b.coverage;
       score += b.score;
     }

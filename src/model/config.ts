@@ -24,6 +24,13 @@ export interface ModelConfig {
   messageHidden: number;
   /** Hidden width of the node update MLP. */
   updateHidden: number;
+  /**
+   * Fixed factor on the node update's learned change of state (its output layer). Adam moves every weight
+   * by about the learning rate per step whatever its gradient's size, while the change of state a step
+   * needs on top of the stride prior is a few hundredths of a feature's spread: at factor 1 the first
+   * steps throw the rollout far off and training spends its epochs coming back.
+   */
+  residualScale: number;
   /** Teacher-forced one-step transitions scored at the end of the observed part (at most observe − 1). */
   reconSteps: number;
   /** Weight of the multi-step rollout term over the forecast steps. */
@@ -87,6 +94,7 @@ export function defaultModelConfig(): ModelConfig {
     dynamicStride: 5,
     messageHidden: 32,
     updateHidden: 64,
+    residualScale: 0.01,
     reconSteps: 30,
     rolloutWeight: 1,
     beta: 1,
@@ -110,6 +118,8 @@ export function resolveModelConfig(partial: Partial<ModelConfig> = {}): ModelCon
   const legacy: Partial<ModelConfig> = partial.kinematic !== undefined && partial.stridePrior === undefined ? { stridePrior: false } : {};
   // One that names the stride prior but no history was written when the prior read the observed part only.
   if (partial.stridePrior !== undefined && partial.priorHistory === undefined) legacy.priorHistory = partial.observe ?? defaultModelConfig().observe;
+  // One without a residual scale learned its change of state unscaled.
+  if (partial.stridePrior !== undefined && partial.residualScale === undefined) legacy.residualScale = 1;
   // And one without priorRegistration took whole periods back.
   if (partial.stridePrior !== undefined && partial.priorRegistration === undefined) legacy.priorRegistration = false;
   const c: ModelConfig = { ...defaultModelConfig(), ...legacy, ...partial };
@@ -123,6 +133,7 @@ export function resolveModelConfig(partial: Partial<ModelConfig> = {}): ModelCon
   if (c.priorHistory < c.observe) throw new RangeError(`priorHistory (${c.priorHistory}) must be at least observe (${c.observe})`);
   if (c.reconSteps > c.observe - 1) throw new RangeError(`reconSteps (${c.reconSteps}) must be at most observe − 1 (${c.observe - 1})`);
   if (c.restrictedLabeling && c.dynamicDims < 2) throw new RangeError('restricted labeling needs at least 2 dynamic dimensions');
+  if (!(c.residualScale > 0) || !Number.isFinite(c.residualScale)) throw new RangeError('model config residualScale must be a positive number');
   for (const k of ['rolloutWeight', 'beta', 'labelWeight', 'noiseFloor'] as const)
     if (!(c[k] >= 0) || !Number.isFinite(c[k])) throw new RangeError(`model config ${k} must be a finite number ≥ 0`);
   if (!(c.rate > 0) || !Number.isFinite(c.rate)) throw new RangeError('model config rate must be a positive number of steps per second');

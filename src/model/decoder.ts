@@ -1,12 +1,12 @@
 // The decoder: one Markov message-passing step, x(t) → x(t + 1), for every node of a stack of windows.
 //   message  m_ij = σ([s, d]_ij·wg + bg) · ss(x_i·Wa + x_j·Wb + [s, d]_ij·Wz + bz)
-//   update   Δx_j = ss(x_j·W1x + (Σ_i m_ij)·W1m + nodeBias_j + b1)·W2 + b2,   x_j(t + 1) = x_j(t) + Δx_j + k(x_j)
+//   update   Δx_j = ρ·(ss(x_j·W1x + (Σ_i m_ij)·W1m + nodeBias_j + b1)·W2 + b2),   x_j(t + 1) = x_j(t) + Δx_j + k(x_j)
 // where k is the fixed kinematic step (positions advanced by velocity / rate, model.ts) when switched on,
 // or, when the pass carries a fixed step (cache.step: the stride prior's change of state, model.ts), that
 // step instead; it does not depend on x, so it adds nothing to the backward pass.
 // The first message layer is split per node (x·Wa, x·Wb once per node) and per pair only its factor part
 // ([s, d]·Wz, computed once per dynamic point in decoderFactors); the layer after the sum is W1m, applied
-// once per node; ss is softsign (softsign.ts). With noCoupling there are no messages at all: the update sees only its own node.
+// once per node; ss is softsign (softsign.ts); ρ is the configuration's fixed residualScale. With noCoupling there are no messages at all: the update sees only its own node.
 import { STATE_SIZE } from '../motion/reflect.js';
 import { sigmoid } from '../nn/activations.js';
 import { linearBackward, linearForward } from '../nn/linear.js';
@@ -71,8 +71,8 @@ export function decoderForward(model: CouplingModel, ws: Workspace, cache: Decod
   }
   softsign(h1, h1, rows * U);
   linearForward(h1, p.upW2.value, p.upB2.value, cache.out, rows, U, STATE_SIZE);
-  const out = cache.out;
-  for (let i = 0; i < rows * STATE_SIZE; i++) out[i] = out[i]! + x[i]!;
+  const out = cache.out, rho = c.residualScale;
+  for (let i = 0; i < rows * STATE_SIZE; i++) out[i] = rho * out[i]! + x[i]!;
   const kin = model.kinematic, fixed = cache.step;
   if (fixed) for (let i = 0; i < rows * STATE_SIZE; i++) out[i] = out[i]! + fixed[i]!;
   else if (kin) {
@@ -116,8 +116,9 @@ function pairMessages(ws: Workspace, cache: DecoderCache, B: number, N: number, 
 }
 
 /**
- * Backward of decoderForward for dOut (gradient on cache.out). Accumulates the decoder weight gradients,
- * ws.dzp and ws.dgate; dx (may be null) += gradient on cache.x.
+ * Backward of decoderForward for dOut (gradient on cache.out; consumed: it is scaled in place by the
+ * residual scale). Accumulates the decoder weight gradients, ws.dzp and ws.dgate; dx (may be null) +=
+ * gradient on cache.x.
  */
 export function decoderBackward(model: CouplingModel, ws: Workspace, cache: DecoderCache, B: number, dOut: Buf, dx: Buf | null): void {
   if (!cache.keep) throw new Error('decoder cache was run without keeping its messages');
@@ -132,6 +133,8 @@ export function decoderBackward(model: CouplingModel, ws: Workspace, cache: Deco
         for (let a = 0; a < 3; a++) dx[o + 3 + a] = dx[o + 3 + a]! + kin.gain[n + a]! * dOut[o + a]!;
       }
   }
+  const rho = c.residualScale;
+  if (rho !== 1) for (let i = 0; i < rows * STATE_SIZE; i++) dOut[i] = rho * dOut[i]!;
   linearBackward(h1, p.upW2.value, dOut, dH1, p.upW2.grad, p.upB2.grad, rows, U, STATE_SIZE, false);
   softsignBackward(h1, dH1, dH1, rows * U);
   const gn = p.upNode.grad;

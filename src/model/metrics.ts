@@ -23,19 +23,27 @@ export function meanJointError(pred: Float64Array, truth: Float64Array, nodeCoun
  * ([samples × steps × nodes × 3]) over all steps, nodes and axes (empirical quantiles per coordinate).
  */
 export function bandCoverage(samples: Float64Array, sampleCount: number, truth: Float64Array, level = 0.9): number {
-  const L = truth.length;
-  const col = new Float64Array(sampleCount);
-  const lo = (1 - level) / 2, hi = 1 - lo;
-  let inside = 0;
+  return bandStats(samples, sampleCount, truth, level).coverage;
+}
+
+/**
+ * Returns the central `level` band's coverage (as bandCoverage) and mean interval score over the
+ * coordinates: the band's width plus 2/α times each miss beyond it, α = 1 − level (Gneiting and
+ * Raftery 2007). `col` (at least sampleCount long) is scratch.
+ */
+export function bandStats(samples: Float64Array, sampleCount: number, truth: Float64Array, level: number, col = new Float64Array(sampleCount)): { coverage: number; score: number } {
+  const L = truth.length, alpha = 1 - level, lo = alpha / 2, hi = 1 - lo;
+  const q = (p: number) => {
+    const x = p * (sampleCount - 1), i = Math.floor(x), w = x - i;
+    return i + 1 < sampleCount ? col[i]! * (1 - w) + col[i + 1]! * w : col[i]!;
+  };
+  let inside = 0, score = 0;
   for (let c = 0; c < L; c++) {
     for (let s = 0; s < sampleCount; s++) col[s] = samples[s * L + c]!;
-    col.sort();
-    const q = (p: number) => {
-      const x = p * (sampleCount - 1), i = Math.floor(x), w = x - i;
-      return i + 1 < sampleCount ? col[i]! * (1 - w) + col[i + 1]! * w : col[i]!;
-    };
-    const v = truth[c]!;
-    if (v >= q(lo) && v <= q(hi)) inside++;
+    col.subarray(0, sampleCount).sort();
+    const l = q(lo), u = q(hi), v = truth[c]!;
+    if (v >= l && v <= u) inside++;
+    score += u - l + (v < l ? (2 / alpha) * (l - v) : 0) + (v > u ? (2 / alpha) * (v - u) : 0);
   }
-  return inside / L;
+  return { coverage: inside / L, score: score / L };
 }

@@ -1,7 +1,7 @@
 // Forecast baselines on signals whose future is known by construction (hand-computed cases).
 import { describe, expect, it } from 'vitest';
 import { baselineForecast, constantVelocity, registeredStrideForecast, strideForecast, zeroMotion } from '../../src/model/baselines.js';
-import { bandCoverage, horizonStep, meanJointError } from '../../src/model/metrics.js';
+import { bandCoverage, bandStats, horizonStep, meanJointError } from '../../src/model/metrics.js';
 import { stridePeriodAt } from '../../src/model/period.js';
 
 /** Returns steps × nodes × 3 positions: the pelvis (node 0) advancing along x at `v` m/s, every node
@@ -65,6 +65,11 @@ describe('forecast baselines', () => {
     expect(cover(4)).toBe(0);
     expect(cover(95)).toBe(1);
     expect(cover(96)).toBe(0);
+    // Interval score (Gneiting and Raftery 2007): width 90, plus 2/0.1 × the miss: at 4, 90 + 20 × 1 = 110 (hand-computed).
+    const score = (v: number) => bandStats(Float64Array.from({ length: S }, (_, i) => i), S, Float64Array.of(v), 0.9).score;
+    expect(score(50)).toBeCloseTo(90, 12);
+    expect(score(4)).toBeCloseTo(110, 12);
+    expect(score(97)).toBeCloseTo(130, 12);
   });
 
   it('the registered stride mean forecasts a periodic walk like the stride mean, and reads nothing after the end', () => {

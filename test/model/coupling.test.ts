@@ -20,8 +20,8 @@ function withLearnedChange(model: CouplingModel): CouplingModel {
 }
 
 /** Returns node 0's predicted next state at the last observed step, with node `poke` of the input moved by 0.5 in x. */
-function nextOfNode0(noCoupling: boolean, poke: number | null): Float64Array {
-  const c = resolveModelConfig({ ...TINY, noCoupling });
+function nextOfNode0(noCoupling: boolean, poke: number | null, residualScale = 1): Float64Array {
+  const c = resolveModelConfig({ ...TINY, noCoupling, residualScale });
   const model = withLearnedChange(createModel(c, identityStats(c.nodes), { seed: 4, precision: 64 }));
   const ws = createWorkspace(model, 1);
   const batch = randomBatch(c, 1, model.store.values, 8);
@@ -62,5 +62,22 @@ describe('no-coupling switch', () => {
     // Its own state still matters.
     const self = nextOfNode0(true, 0);
     expect(Math.max(...self.map((v, i) => Math.abs(v - baseNc[i]!)))).toBeGreaterThan(1e-6);
+  });
+});
+
+describe('residual scale', () => {
+  it('multiplies the learned change of state and nothing else (same weights, hand-checked ratio)', () => {
+    // x(t + 1) = x(t) + ρ·learned + prior step: the difference from the input state (which also carries the
+    // stride prior's fixed step, the same for both) must scale by exactly ρ2/ρ1 once that step is taken out.
+    const one = nextOfNode0(false, null, 1), quarter = nextOfNode0(false, null, 0.25), zero = nextOfNode0(false, null, 1e-12);
+    for (let i = 0; i < 6; i++) expect(quarter[i]! - zero[i]!).toBeCloseTo(0.25 * (one[i]! - zero[i]!), 10);
+    expect(Math.max(...one.map((v, i) => Math.abs(v - zero[i]!)))).toBeGreaterThan(1e-3);
+  });
+
+  it('loads as 1 for a stored configuration written before it existed, and refuses a non-positive one', () => {
+    const stored = { ...TINY, stridePrior: true, priorHistory: 4, priorRegistration: true };
+    expect(resolveModelConfig(stored).residualScale).toBe(1);
+    expect(resolveModelConfig({ ...stored, residualScale: 0.05 }).residualScale).toBe(0.05);
+    expect(() => resolveModelConfig({ residualScale: 0 })).toThrow(/residualScale/);
   });
 });

@@ -57,6 +57,12 @@ describe('ELBO gradient', () => {
       expect(names).toContain(n);
   });
 
+  it('matches finite differences with a residual scale on the learned change of state', () => {
+    const { worst, names } = check({ residualScale: 0.3 }, [0, 0, 1]);
+    expect(worst).toBeLessThan(1e-5);
+    for (const n of ['enc.gru.wx', 'dec.msg.wz', 'dec.up.w1x', 'dec.up.w2', 'dec.up.b2', 'noise.rollout']) expect(names).toContain(n);
+  });
+
   it('matches finite differences without match pairing and labeling', () => {
     expect(check({ matchPairing: false, restrictedLabeling: false }, [0, 0]).worst).toBeLessThan(1e-5);
   });
