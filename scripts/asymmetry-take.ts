@@ -55,8 +55,11 @@ export interface AsymmetryTakeResult {
 
 const models = new Map<string, LoadedModel>();
 
-/** Evaluates one subject with the model file at `modelPath`; `mirror` also scores the mirrored take. */
-export function evaluateAsymmetryTake(subject: AsymmetrySubject, modelPath: string, mirror = false): AsymmetryTakeResult {
+/**
+ * Evaluates one subject with the model file at `modelPath`; `mirror` also scores the mirrored take.
+ * `useProfiles` false ignores the file's joint discriminant (fit-joint-profiles refits it, stale or not).
+ */
+export function evaluateAsymmetryTake(subject: AsymmetrySubject, modelPath: string, mirror = false, useProfiles = true): AsymmetryTakeResult {
   let loaded = models.get(modelPath);
   if (!loaded) { loaded = loadModel(modelPath); models.set(modelPath, loaded); }
   const model = loaded.model, c = model.config;
@@ -73,7 +76,7 @@ export function evaluateAsymmetryTake(subject: AsymmetrySubject, modelPath: stri
   const imported = resolveImported(name, take);
   const track = trackFromImported(imported, { rate: c.rate });
   const f = takeFactors(model, track);
-  const profiles = storedJointProfiles(loaded.extras, coupleNames(), c.staticDims);
+  const profiles = useProfiles ? storedJointProfiles(loaded.extras, coupleNames(), c.staticDims) : null;
   const a = couplingAsymmetry(f, norms, { profiles });
   // The carried-node rule beside the learned profiles (the same reading when the model has none).
   const rule = profiles ? couplingAsymmetry(f, norms, { replicates: 1 }) : a;

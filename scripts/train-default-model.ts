@@ -51,10 +51,10 @@ if (v['norms-only']) {
   // Recompute only the normative coupling figures of an existing model file (weights untouched).
   const loaded = loadModel(output);
   const n = cohortNorms(loaded.model);
-  // Joint prototypes are fitted on differences scaled by the old figures: they are dropped (refit them).
+  // The joint discriminant is fitted on differences scaled by the old figures: it is dropped (refit it).
   const { [JOINT_PROFILES_KEY]: stale, ...kept } = loaded.extras;
   saveModel(output, loaded.model, loaded.training, { ...kept, [COUPLING_NORMS_KEY]: n });
-  console.log(`${output}: normative coupling figures from ${n.subjects} normal walkers (control take scores median ${n.controlScoreP50.toFixed(2)}, 90th percentile ${n.controlScoreP90.toFixed(2)})${stale ? '; its joint prototypes were fitted under the old figures and are dropped: run npm run fit:joint-profiles' : ''}`);
+  console.log(`${output}: normative coupling figures from ${n.subjects} normal walkers (control take scores median ${n.controlScoreP50.toFixed(2)}, 90th percentile ${n.controlScoreP90.toFixed(2)})${stale ? '; its joint discriminant was fitted under the old figures and is dropped: run npm run fit:joint-profiles' : ''}`);
   process.exit(0);
 }
 if (v['spread-only']) {
@@ -104,5 +104,5 @@ else {
   console.log(`  twin: ${report.twin ? `${report.twin.epochs_run} epochs (best ${report.twin.best_epoch}), ${report.twin.ms_per_step} ms a step, held-out forecast error ${report.twin.valid_forecast_mm.join(' ')}` : 'none'}; spread scales ${pair.spread.model.toFixed(3)} / ${pair.spread.twin?.toFixed(3) ?? '-'}`);
   console.log(`  normative coupling figures from ${norms.subjects} normal walkers: control take scores median ${norms.controlScoreP50.toFixed(2)}, 90th percentile ${norms.controlScoreP90.toFixed(2)}`);
   console.log(`  whole fit ${report.total_s} s (cohort synthesis ${report.cohort_s} s)`);
-  console.log('  joint prototypes: none yet for these weights; run npm run fit:joint-profiles');
+  console.log('  joint discriminant: none yet for these weights; run npm run fit:joint-profiles');
 }

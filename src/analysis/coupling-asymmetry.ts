@@ -48,10 +48,10 @@ export interface CouplingAsymmetry {
   joint: JointGroup;
   ranked: PairAsymmetry[];
   joints: Record<JointGroup, number>;
-  /** How joint and side were named: learned joint profiles (joint-profiles.ts), or the carried-node rule. */
+  /** How joint and side were named: the learned discriminant of joint-profiles.ts, or the carried-node rule. */
   attribution: 'profiles' | 'carried nodes';
-  /** With profiles: per joint, how strongly the take's couple vector points along its prototypes (|cosine|). */
-  jointSimilarity: Record<JointGroup, number> | null;
+  /** With profiles: per joint, the discriminant's best score of its classes (larger: more like that joint's impairment). */
+  jointScores: Record<JointGroup, number> | null;
   summary: string;
 }
 
@@ -251,7 +251,7 @@ export function couplingAsymmetry(f: TakeFactors, norms: CouplingNorms, options:
     if (name.startsWith('l_')) lean += nodeDev[n]!;
     if (name.startsWith('r_')) lean -= nodeDev[n]!;
   });
-  // With learned joint profiles, they name joint and side instead.
+  // With learned joint profiles, their discriminant names joint and side instead.
   const learned = options.profiles ? attributeByProfiles(coupleVectorOf(mean, S, norms), options.profiles) : null;
   const joint = learned?.joint ?? byNodes;
   const side: 'left' | 'right' = learned?.side ?? (lean >= 0 ? 'left' : 'right');
@@ -259,7 +259,7 @@ export function couplingAsymmetry(f: TakeFactors, norms: CouplingNorms, options:
   const ciLow = q(bootTake, 0.025), ciHigh = q(bootTake, 0.975);
   const top = ranked[0]!;
   const summary = `Coupling asymmetry ${score.toFixed(2)} (95 % interval ${ciLow.toFixed(2)}-${ciHigh.toFixed(2)}; control takes: median ${norms.controlScoreP50.toFixed(2)}, 90th percentile ${norms.controlScoreP90.toFixed(2)}): the ${side} side lies farther from the cohort, most around the ${joint}; the largest difference is ${top.pair} against ${top.mirror} (${top.score.toFixed(2)}).`;
-  return { score, ciLow, ciHigh, side, joint, ranked, joints, attribution: learned ? 'profiles' : 'carried nodes', jointSimilarity: learned?.similarity ?? null, summary };
+  return { score, ciLow, ciHigh, side, joint, ranked, joints, attribution: learned ? 'profiles' : 'carried nodes', jointScores: learned?.scores ?? null, summary };
 }
 
 /** The key of the normative figures among a model file's extras. */

@@ -1,58 +1,67 @@
-// Joint attribution of coupling asymmetry by learned prototypes. Each take gives a signed vector: for
-// every mirror couple (p, m(p)) and static dimension, z = (static(p) − static(m(p)) − μ) / σ against the
-// normative cohort (coupling-asymmetry.ts). Mirroring a take negates it, so "impaired on the right" is
-// the negated pattern of "impaired on the left". A prototype is the mean of the vectors of development
-// subjects with one joint impaired in one way (a source: narrowed by the walker, or edited afterwards),
-// each turned to the left side (negated when the right side was impaired), normalised to unit length.
-// The development cohort is its own (seeds 60000+, src/synth/cohort.ts jointProfileCohort), never the
-// validation cohort.
+// Joint and side attribution of coupling asymmetry by a learned linear discriminant. Each take gives a
+// signed vector: for every mirror couple (p, m(p)) and static dimension, z = (static(p) − static(m(p)) − μ)
+// / σ against the normative cohort (coupling-asymmetry.ts). Mirroring a take negates it, so "impaired on
+// the right" is the negated pattern of "impaired on the left".
 //
-// A take is attributed by the prototype its vector projects on most strongly, either way round: the
-// joint is that prototype's; the side is the sign of the projection on the mean of all prototypes (what
-// every one-sided impairment shares). Measured by leave-one-out on 192 development subjects with the
-// shipped model: joint 64.6 %, side 77.6 %, against one profile per joint (centred cosine) 58.9 % and
-// 73.4 %, and the carried-node rule 43.2 % and 75.5 %; the ankle is rarely named either way.
+// Development subjects (their own cohort, never the validation one: src/synth/cohort.ts
+// jointProfileCohort) are turned to the left side (negated when the right side was impaired) and grouped
+// in classes: one per joint and way of impairing it (narrowed by the walker, edited afterwards), plus
+// side-only classes for one-sided impairments of no single joint (shorter stance, shorter step). Classes
+// share one covariance, the pooled within-class scatter shrunk toward a multiple of the identity,
+// Σ = (1 − λ) S + λ (tr S / L) I (regularised discriminant analysis, Friedman 1989, "Regularized
+// discriminant analysis", JASA 84). Class c gets weights w_c = Σ⁻¹ μ_c and bias ½ μ_cᵀ w_c; a take z
+// scores each class on either side by |w_c · z| − bias_c (the Gaussian log-likelihood ratio up to terms
+// every class shares). The best class of any kind names the side (the sign of w_c · z); the best joint
+// class names the joint. λ is chosen from a grid by cross-validation on the development subjects.
 import type { JointGroup } from './coupling-asymmetry.js';
 
 /** The joints named, in a fixed order. */
 export const JOINT_GROUPS: readonly JointGroup[] = ['hip', 'knee', 'ankle', 'shoulder/arm'];
 
-/** One unit prototype over couples × static dimensions: a joint impaired one way, turned to the left side. */
-export interface JointPrototype {
-  joint: JointGroup;
+/** Shrinkage values tried by cross-validation, and the folds. */
+export const SHRINKAGE_GRID: readonly number[] = [0.005, 0.01, 0.02, 0.05, 0.1, 0.2, 0.5];
+export const CV_FOLDS = 8;
+
+/** One class of the discriminant: a joint impaired one way (or a side-only impairment, joint null), turned to the left side. */
+export interface DiscriminantClass {
+  joint: JointGroup | null;
   source: string;
-  vector: number[];
+  weights: number[];
+  bias: number;
   subjects: number;
 }
 
-/** Prototypes and what they were fitted on. */
+/** The fitted discriminant and what it was fitted on. */
 export interface JointProfiles {
+  method: 'shrinkage-discriminant';
   staticDims: number;
   /** Couples named "sender→receiver" of each couple's first pair, in the vectors' order. */
   couples: string[];
-  prototypes: JointPrototype[];
-  /** Development subjects per joint. */
+  classes: DiscriminantClass[];
+  /** The chosen shrinkage λ. */
+  shrinkage: number;
+  /** Development subjects per joint, and of the side-only classes. */
   subjects: Record<JointGroup, number>;
-  /** Leave-one-out accuracy on the development subjects: joint and side. */
-  looJoint: number;
-  looSide: number;
+  sideOnlySubjects: number;
+  /** Cross-validated accuracy per shrinkage tried: joint (of the joint subjects) and side (of all). */
+  cv: { shrinkage: number; joint: number; side: number }[];
 }
 
-/** One development subject: its signed couple vector, impaired joint, how it was impaired, and side. */
+/** One development subject: its signed couple vector, impaired joint (null: a side-only impairment), how it was impaired, and side. */
 export interface ProfileSample {
   z: ArrayLike<number>;
-  joint: JointGroup;
-  /** How the joint was impaired (e.g. "walker", "edited"): one prototype per joint and source. */
+  joint: JointGroup | null;
+  /** How it was impaired (e.g. "walker", "edited", "stance"): one class per joint and source. */
   source: string;
   side: 'left' | 'right';
 }
 
-/** What attribution by profiles says of one take. */
+/** What the discriminant says of one take. */
 export interface ProfileAttribution {
   joint: JointGroup;
   side: 'left' | 'right';
-  /** Per joint, the largest |projection| of the vector (unit length) on its prototypes. */
-  similarity: Record<JointGroup, number>;
+  /** Per joint, the best score |w · z| − bias of its classes (larger: more like that joint's impairment). */
+  scores: Record<JointGroup, number>;
 }
 
 function dot(a: ArrayLike<number>, b: ArrayLike<number>): number {
@@ -61,69 +70,134 @@ function dot(a: ArrayLike<number>, b: ArrayLike<number>): number {
   return s;
 }
 
-function unit(v: Float64Array): Float64Array {
-  const n = Math.sqrt(dot(v, v));
-  if (n > 0) for (let i = 0; i < v.length; i++) v[i]! /= n;
-  return v;
+/** Returns the lower Cholesky factor of a symmetric positive-definite n × n matrix (row-major); throws RangeError otherwise. */
+function cholesky(a: Float64Array, n: number): Float64Array {
+  const l = new Float64Array(n * n);
+  for (let i = 0; i < n; i++)
+    for (let j = 0; j <= i; j++) {
+      let s = a[i * n + j]!;
+      for (let k = 0; k < j; k++) s -= l[i * n + k]! * l[j * n + k]!;
+      if (i === j) {
+        if (!(s > 0)) throw new RangeError('the shrunk covariance is not positive definite');
+        l[i * n + i] = Math.sqrt(s);
+      } else l[i * n + j] = s / l[j * n + j]!;
+    }
+  return l;
 }
 
-/** Returns unit prototypes (mean of side-turned vectors per joint and source); throws RangeError without a subject of every joint. */
-function prototypesOf(samples: readonly ProfileSample[], L: number): JointPrototype[] {
-  const out: JointPrototype[] = [];
-  for (const j of JOINT_GROUPS) {
-    const sources = [...new Set(samples.filter((s) => s.joint === j).map((s) => s.source))].sort();
-    if (sources.length === 0) throw new RangeError(`joint profiles need development subjects of every joint (none for the ${j})`);
-    for (const source of sources) {
-      const acc = new Float64Array(L);
-      let k = 0;
-      for (const s of samples) {
-        if (s.joint !== j || s.source !== source) continue;
-        const sign = s.side === 'left' ? 1 : -1;
-        for (let i = 0; i < L; i++) acc[i]! += sign * s.z[i]!;
-        k++;
-      }
-      out.push({ joint: j, source, vector: Array.from(unit(acc)), subjects: k });
+/** Returns x solving (l lᵀ) x = b. */
+function choleskySolve(l: Float64Array, n: number, b: ArrayLike<number>): Float64Array {
+  const y = new Float64Array(n), x = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    let s = b[i]!;
+    for (let k = 0; k < i; k++) s -= l[i * n + k]! * y[k]!;
+    y[i] = s / l[i * n + i]!;
+  }
+  for (let i = n - 1; i >= 0; i--) {
+    let s = y[i]!;
+    for (let k = i + 1; k < n; k++) s -= l[k * n + i]! * x[k]!;
+    x[i] = s / l[i * n + i]!;
+  }
+  return x;
+}
+
+const classKey = (s: { joint: JointGroup | null; source: string }) => `${s.joint ?? '-'}|${s.source}`;
+
+/** Class means of the side-turned vectors and their pooled within-class scatter (L × L, divided by the subject count). */
+function classMoments(samples: readonly ProfileSample[], L: number): { keys: string[]; labels: { joint: JointGroup | null; source: string }[]; means: Float64Array[]; counts: number[]; scatter: Float64Array } {
+  const keys = [...new Set(samples.map(classKey))].sort();
+  const labels = keys.map((k) => { const s = samples.find((x) => classKey(x) === k)!; return { joint: s.joint, source: s.source }; });
+  const means = keys.map(() => new Float64Array(L)), counts = keys.map(() => 0);
+  for (const s of samples) {
+    const c = keys.indexOf(classKey(s)), sign = s.side === 'left' ? 1 : -1, m = means[c]!;
+    for (let i = 0; i < L; i++) m[i]! += sign * s.z[i]!;
+    counts[c]!++;
+  }
+  means.forEach((m, c) => { for (let i = 0; i < L; i++) m[i]! /= counts[c]!; });
+  const scatter = new Float64Array(L * L), d = new Float64Array(L);
+  for (const s of samples) {
+    const m = means[keys.indexOf(classKey(s))]!, sign = s.side === 'left' ? 1 : -1;
+    for (let i = 0; i < L; i++) d[i] = sign * s.z[i]! - m[i]!;
+    for (let i = 0; i < L; i++) {
+      const di = d[i]!, row = i * L;
+      if (di !== 0) for (let j = 0; j <= i; j++) scatter[row + j]! += di * d[j]!;
     }
   }
-  return out;
+  for (let i = 0; i < L; i++) for (let j = 0; j <= i; j++) { const v = scatter[i * L + j]! / samples.length; scatter[i * L + j] = v; scatter[j * L + i] = v; }
+  return { keys, labels, means, counts, scatter };
 }
 
-/** Returns the attribution of a signed couple vector by unit prototypes. */
-function attribute(z: ArrayLike<number>, prototypes: readonly JointPrototype[]): ProfileAttribution {
-  const L = z.length, common = new Float64Array(L);
-  for (const p of prototypes) for (let i = 0; i < L; i++) common[i]! += p.vector[i]! / prototypes.length;
-  const norm = Math.sqrt(dot(z, z)) || 1;
-  const similarity = Object.fromEntries(JOINT_GROUPS.map((j) => [j, 0])) as Record<JointGroup, number>;
-  let best: JointGroup = prototypes[0]!.joint, bestSim = -Infinity;
-  for (const p of prototypes) {
-    const sim = Math.abs(dot(z, p.vector)) / norm;
-    similarity[p.joint] = Math.max(similarity[p.joint], sim);
-    if (sim > bestSim) { bestSim = sim; best = p.joint; }
+/** Returns the discriminant classes fitted on side-turned samples with shrinkage λ (0 < λ ≤ 1). */
+export function fitDiscriminant(samples: readonly ProfileSample[], L: number, shrinkage: number): DiscriminantClass[] {
+  if (!(shrinkage > 0 && shrinkage <= 1)) throw new RangeError(`shrinkage must lie in (0, 1] (got ${shrinkage})`);
+  const { labels, means, counts, scatter } = classMoments(samples, L);
+  let trace = 0;
+  for (let i = 0; i < L; i++) trace += scatter[i * L + i]!;
+  // A scatter of zero (identical subjects) still needs a positive target.
+  const target = trace > 0 ? trace / L : 1;
+  const a = new Float64Array(L * L);
+  for (let i = 0; i < L * L; i++) a[i] = (1 - shrinkage) * scatter[i]!;
+  for (let i = 0; i < L; i++) a[i * L + i]! += shrinkage * target;
+  const l = cholesky(a, L);
+  return labels.map(({ joint, source }, c) => {
+    const w = choleskySolve(l, L, means[c]!);
+    return { joint, source, weights: Array.from(w), bias: 0.5 * dot(w, means[c]!), subjects: counts[c]! };
+  });
+}
+
+/** Returns the attribution of a signed couple vector by discriminant classes (at least one joint class). */
+function attribute(z: ArrayLike<number>, classes: readonly DiscriminantClass[]): ProfileAttribution {
+  const scores = Object.fromEntries(JOINT_GROUPS.map((j) => [j, -Infinity])) as Record<JointGroup, number>;
+  let bestAny = -Infinity, side: 'left' | 'right' = 'left', joint: JointGroup = JOINT_GROUPS[0]!, bestJoint = -Infinity;
+  for (const c of classes) {
+    const a = dot(c.weights, z), sc = Math.abs(a) - c.bias;
+    if (sc > bestAny) { bestAny = sc; side = a >= 0 ? 'left' : 'right'; }
+    if (c.joint) {
+      scores[c.joint] = Math.max(scores[c.joint], sc);
+      if (sc > bestJoint) { bestJoint = sc; joint = c.joint; }
+    }
   }
-  return { joint: best, side: dot(z, common) >= 0 ? 'left' : 'right', similarity };
+  return { joint, side, scores };
 }
 
-/** Returns profiles fitted on development subjects, with their leave-one-out accuracies. */
-export function fitJointProfiles(samples: readonly ProfileSample[], couples: readonly string[], staticDims: number): JointProfiles {
+/**
+ * Returns the discriminant fitted on development subjects, its shrinkage chosen by `CV_FOLDS`-fold
+ * cross-validation (subject i in fold i mod folds) for the best mean of joint and side accuracy (ties: the
+ * larger λ). Throws RangeError without a subject of every joint or when the vectors do not fit.
+ */
+export function fitJointProfiles(samples: readonly ProfileSample[], couples: readonly string[], staticDims: number, options: { shrinkages?: readonly number[]; folds?: number } = {}): JointProfiles {
   const L = couples.length * staticDims;
   if (samples.some((s) => s.z.length !== L)) throw new RangeError(`every vector needs ${couples.length} couples × ${staticDims} dimensions`);
-  const full = prototypesOf(samples, L);
-  let joint = 0, side = 0;
-  samples.forEach((s, i) => {
-    const a = attribute(s.z, prototypesOf(samples.filter((_, k) => k !== i), L));
-    if (a.joint === s.joint) joint++;
-    if (a.side === s.side) side++;
+  for (const j of JOINT_GROUPS) if (!samples.some((s) => s.joint === j)) throw new RangeError(`joint profiles need development subjects of every joint (none for the ${j})`);
+  const folds = Math.max(2, Math.min(options.folds ?? CV_FOLDS, samples.length));
+  const jointSubjects = samples.filter((s) => s.joint !== null).length;
+  const cv = (options.shrinkages ?? SHRINKAGE_GRID).map((shrinkage) => {
+    let joint = 0, side = 0;
+    for (let f = 0; f < folds; f++) {
+      const train = samples.filter((_, i) => i % folds !== f);
+      if (!JOINT_GROUPS.every((j) => train.some((s) => s.joint === j))) continue;
+      const classes = fitDiscriminant(train, L, shrinkage);
+      samples.forEach((s, i) => {
+        if (i % folds !== f) return;
+        const a = attribute(s.z, classes);
+        if (a.side === s.side) side++;
+        if (s.joint !== null && a.joint === s.joint) joint++;
+      });
+    }
+    return { shrinkage, joint: joint / jointSubjects, side: side / samples.length };
   });
+  const best = cv.reduce((b, r) => (r.joint + r.side > b.joint + b.side || (r.joint + r.side === b.joint + b.side && r.shrinkage > b.shrinkage) ? r : b));
   const subjects = Object.fromEntries(JOINT_GROUPS.map((j) => [j, samples.filter((s) => s.joint === j).length])) as Record<JointGroup, number>;
   return {
-    staticDims, couples: [...couples], prototypes: full, subjects, looJoint: joint / samples.length, looSide: side / samples.length,
+    method: 'shrinkage-discriminant', staticDims, couples: [...couples], classes: fitDiscriminant(samples, L, best.shrinkage), shrinkage: best.shrinkage,
+    subjects, sideOnlySubjects: samples.length - jointSubjects, cv,
   };
 }
 
 /** Returns the attribution of a take's signed couple vector by stored profiles. */
 export function attributeByProfiles(z: ArrayLike<number>, p: JointProfiles): ProfileAttribution {
   if (z.length !== p.couples.length * p.staticDims) throw new RangeError('the couple vector does not fit the joint profiles');
-  return attribute(z, p.prototypes);
+  return attribute(z, p.classes);
 }
 
 /** The key of the joint profiles among a model file's extras. */
@@ -134,9 +208,12 @@ export function storedJointProfiles(extras: Record<string, unknown>, couples: re
   const v = extras[JOINT_PROFILES_KEY] as Partial<JointProfiles> | undefined;
   if (v === undefined) return null;
   const L = couples.length * staticDims;
-  const ok = (a: unknown) => Array.isArray(a) && a.length === L && a.every((x) => typeof x === 'number' && Number.isFinite(x));
-  if (!v || v.staticDims !== staticDims || !Array.isArray(v.couples) || v.couples.join() !== couples.join() || !Array.isArray(v.prototypes) || v.prototypes.length === 0
-    || !v.prototypes.every((p) => p && JOINT_GROUPS.includes(p.joint) && typeof p.source === 'string' && ok(p.vector)) || !JOINT_GROUPS.every((j) => v.prototypes!.some((p) => p.joint === j)))
+  const finite = (x: unknown) => typeof x === 'number' && Number.isFinite(x);
+  const ok = (a: unknown) => Array.isArray(a) && a.length === L && a.every(finite);
+  if (!v || v.method !== 'shrinkage-discriminant') throw new RangeError('the stored joint profiles are of an older kind: refit them (npm run fit:joint-profiles)');
+  if (v.staticDims !== staticDims || !Array.isArray(v.couples) || v.couples.join() !== couples.join() || !Array.isArray(v.classes) || v.classes.length === 0
+    || !v.classes.every((c) => c && (c.joint === null || JOINT_GROUPS.includes(c.joint)) && typeof c.source === 'string' && ok(c.weights) && finite(c.bias))
+    || !JOINT_GROUPS.every((j) => v.classes!.some((c) => c.joint === j)))
     throw new RangeError(`the stored joint profiles do not fit the model (${couples.length} couples × ${staticDims} dimensions)`);
   return v as JointProfiles;
 }

@@ -33,7 +33,7 @@ export function asymmetryJson(a: CouplingAsymmetry): Record<string, unknown> {
   return {
     score: r3(a.score), ci_low: r3(a.ciLow), ci_high: r3(a.ciHigh), side: a.side, joint: a.joint,
     attribution: a.attribution,
-    joint_similarity: a.jointSimilarity ? Object.fromEntries(Object.entries(a.jointSimilarity).map(([k, v]) => [k, r3(v)])) : null,
+    joint_scores: a.jointScores ? Object.fromEntries(Object.entries(a.jointScores).map(([k, v]) => [k, r3(v)])) : null,
     joints: Object.fromEntries(Object.entries(a.joints).map(([k, v]) => [k, r3(v)])),
     ranked: a.ranked.map((r) => ({ pair: r.pair, mirror: r.mirror, score: r3(r.score), ci_low: r3(r.ciLow), ci_high: r3(r.ciHigh), side: r.side })),
     summary: a.summary,
@@ -98,8 +98,8 @@ export function register(program: Command): void {
     if (asym) {
       lines.push(`  ${asym.summary}`, '  largest pair differences (score, 95 % interval, side farther from the cohort):');
       for (const r of asym.ranked.slice(0, 8)) lines.push(`    ${r.pair.padEnd(24)} vs ${r.mirror.padEnd(24)} ${r.score.toFixed(2).padStart(6)}  ${r.ciLow.toFixed(2)}-${r.ciHigh.toFixed(2)}  ${r.side}`);
-      if (asym.jointSimilarity) lines.push(`  joint and side named by the model's learned joint prototypes; similarity: ${Object.entries(asym.jointSimilarity).map(([k, v]) => `${k} ${v.toFixed(2)}`).join(', ')}`);
-      lines.push(`  by joint: ${Object.entries(asym.joints).map(([k, v]) => `${k} ${v.toFixed(2)}`).join(', ')}`, `    (each joint scored by the couples of the nodes it carries: hip the knee, knee the ankle, ankle the toe, shoulder the elbow and wrist${asym.jointSimilarity ? '' : '; this names the joint'})`);
+      if (asym.jointScores) lines.push(`  joint and side named by the model's learned joint discriminant; scores: ${Object.entries(asym.jointScores).map(([k, v]) => `${k} ${v.toFixed(2)}`).join(', ')}`);
+      lines.push(`  by joint: ${Object.entries(asym.joints).map(([k, v]) => `${k} ${v.toFixed(2)}`).join(', ')}`, `    (each joint scored by the couples of the nodes it carries: hip the knee, knee the ankle, ankle the toe, shoulder the elbow and wrist${asym.jointScores ? '' : '; this names the joint'})`);
     } else lines.push(`  ${modelPath} holds no normative coupling figures, so no asymmetry is scored`);
     lines.push('  classic left-right differences, 95 % bootstrap intervals over cycles:');
     const fmt = (v: number | null, ci: [number, number] | null | undefined) => (v === null ? '–' : `${v.toFixed(1)}${ci ? ` (${ci[0].toFixed(1)}-${ci[1].toFixed(1)})` : ''}`);

@@ -166,15 +166,22 @@ const VALIDATION_SEEDS: AsymmetrySeeds = { walkers: 40000, edited: 50000, pick: 
 /** The walker-made kinds that narrow one joint's range (the arm swing counts as the shoulder's). */
 export const JOINT_RANGE_KINDS: readonly AsymmetryKind[] = ['knee', 'hip', 'ankle', 'arm'];
 
+/** The walker-made kinds that impair one side without narrowing one joint (they teach the attribution sides only). */
+export const SIDE_ONLY_KINDS: readonly AsymmetryKind[] = ['stance', 'step'];
+
 /**
- * Returns the joint-profile development cohort (seeds 60000+ and 65000+, disjoint from every other
- * cohort, the validation cohort included): the joint-range kinds only (knee, hip, ankle range and arm
- * swing by the walker; hip, knee, ankle and shoulder narrowed afterwards), `perStratum` subjects per
- * kind and severity stratum, random sides. The joint attribution's profiles are fitted on it
- * (src/analysis/joint-profiles.ts), never on the validation cohort.
+ * Returns the joint-profile development cohort (seeds 60000+, 62000+ and 65000+, disjoint from every
+ * other cohort, the validation cohort included): the joint-range kinds (knee, hip, ankle range and arm
+ * swing by the walker; hip, knee, ankle and shoulder narrowed afterwards) and the side-only kinds
+ * (shorter stance, shorter step by the walker), `perStratum` subjects per kind and severity stratum,
+ * random sides. The joint attribution's discriminant is fitted on it (src/analysis/joint-profiles.ts),
+ * never on the validation cohort.
  */
 export function jointProfileCohort(perStratum = 8, duration = 30): AsymmetrySubject[] {
-  return asymmetryCohort({ controls: 0, perStratum, editPerStratum: perStratum, duration, kinds: JOINT_RANGE_KINDS, seeds: { walkers: 60000, edited: 65000, pick: 6161 }, prefix: 'D' });
+  return [
+    ...asymmetryCohort({ controls: 0, perStratum, editPerStratum: perStratum, duration, kinds: JOINT_RANGE_KINDS, seeds: { walkers: 60000, edited: 65000, pick: 6161 }, prefix: 'D' }),
+    ...asymmetryCohort({ controls: 0, perStratum, editPerStratum: 0, duration, kinds: SIDE_ONLY_KINDS, seeds: { walkers: 62000, edited: 67000, pick: 6262 }, prefix: 'DS' }),
+  ];
 }
 
 

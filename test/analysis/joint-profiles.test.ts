@@ -1,53 +1,69 @@
-// Joint attribution by learned prototypes (src/analysis/joint-profiles.ts) on hand-built couple vectors:
-// known joint patterns sharing one common component (one source per joint, and for the hip a second
-// source with another pattern), each development subject one pattern turned to its side plus seeded
-// noise. Expected: the prototypes point along the patterns, leave-one-out names joint and side, a negated
-// vector (the mirror image) keeps the joint and flips the side, and stored prototypes are read back or
-// refused by shape. Then couplingAsymmetry uses stored prototypes for joint and side.
+// Joint attribution by the shrinkage discriminant (src/analysis/joint-profiles.ts): weights and biases
+// hand-computed on a two-class example (regularised discriminant analysis, Friedman 1989); then
+// hand-built couple vectors, known joint patterns sharing one common component (one source per joint, a
+// second source for the hip, a side-only stance pattern), each development subject one pattern turned to
+// its side plus seeded noise. Expected: cross-validation names joint and side, a negated vector (the
+// mirror image) keeps the joint and flips the side, a nuisance shared by two joints is discounted, and
+// stored profiles are read back or refused. Then couplingAsymmetry uses stored profiles for joint and side.
 import { describe, expect, it } from 'vitest';
 import { coupleNames, coupleVector, couplingAsymmetry, couplingNorms } from '../../src/analysis/coupling-asymmetry.js';
 import type { TakeFactors } from '../../src/analysis/factors.js';
-import { attributeByProfiles, fitJointProfiles, JOINT_GROUPS, JOINT_PROFILES_KEY, storedJointProfiles, type ProfileSample } from '../../src/analysis/joint-profiles.js';
+import { attributeByProfiles, fitDiscriminant, fitJointProfiles, JOINT_GROUPS, JOINT_PROFILES_KEY, SHRINKAGE_GRID, storedJointProfiles, type ProfileSample } from '../../src/analysis/joint-profiles.js';
 import { DEFAULT_PAIRS } from '../../src/motion/roles.js';
 import { Pcg32 } from '../../src/nn/prng.js';
 
 const couples = ['a→b', 'c→d', 'e→f', 'g→h', 'i→j', 'k→l'], S = 2, L = couples.length * S;
 
-/** Returns pattern j: a common lift of 1 on every entry plus 3 on entries 2j and 2j + 1 (j = 4: the hip's second source). */
+/** Returns pattern j: a common lift of 1 on every entry plus 3 on entries 2j and 2j + 1 (j = 4: the hip's second source, j = 5: a side-only kind). */
 function pattern(j: number): Float64Array {
   const v = new Float64Array(L).fill(1);
   v[2 * j] = 4; v[2 * j + 1] = 4;
   return v;
 }
 
-function samples(seed: number, perJoint: number, noise: number): ProfileSample[] {
+/** Development subjects: each joint's pattern (and the hip's edited one, and a side-only stance pattern) on alternating sides, plus noise and a shared nuisance. */
+function samples(seed: number, perClass: number, noise: number, nuisance = 0): ProfileSample[] {
   const rng = new Pcg32(seed, 5), out: ProfileSample[] = [];
-  const kinds = [...JOINT_GROUPS.map((joint, j) => ({ joint, source: 'walker', j })), { joint: 'hip' as const, source: 'edited', j: 4 }];
+  const kinds = [...JOINT_GROUPS.map((joint, j) => ({ joint, source: 'walker', j })), { joint: 'hip' as const, source: 'edited', j: 4 }, { joint: null, source: 'stance', j: 5 }];
   for (const { joint, source, j } of kinds)
-    for (let k = 0; k < perJoint; k++) {
+    for (let k = 0; k < perClass; k++) {
       const side = k % 2 === 0 ? 'left' : 'right', sign = side === 'left' ? 1 : -1;
-      out.push({ joint, source, side, z: Float64Array.from(pattern(j), (x) => sign * x + noise * rng.gauss()) });
+      // The nuisance moves entries 0-3 (hip and knee) together by a large random amount, on neither side.
+      const n = nuisance * rng.gauss();
+      out.push({ joint, source, side, z: Float64Array.from(pattern(j), (x, i) => sign * x + noise * rng.gauss() + (i < 4 ? n : 0)) });
     }
   return out;
 }
 
-describe('joint profiles', () => {
-  const fitted = fitJointProfiles(samples(1, 6, 0.3), couples, S);
-
-  it('points each prototype along its pattern (unit length), one per joint and source', () => {
-    expect(fitted.prototypes.map((p) => `${p.joint}/${p.source}`)).toEqual(['hip/edited', 'hip/walker', 'knee/walker', 'ankle/walker', 'shoulder/arm/walker']);
-    for (const p of fitted.prototypes) {
-      const t = pattern(p.source === 'edited' ? 4 : JOINT_GROUPS.indexOf(p.joint));
-      const cos = p.vector.reduce((s, x, i) => s + x * t[i]!, 0) / Math.hypot(...t);
-      expect(Math.hypot(...p.vector)).toBeCloseTo(1, 12);
-      expect(cos).toBeGreaterThan(0.98);
-    }
-    expect(fitted.subjects).toEqual({ hip: 12, knee: 6, ankle: 6, 'shoulder/arm': 6 });
+describe('shrinkage discriminant', () => {
+  it('gives hand-computed weights and biases', () => {
+    // Two classes in two dimensions, two subjects each at μ ± (1, 1) (all turned left): pooled scatter
+    // [[1, 1], [1, 1]], trace 2, so with λ = 0.5: Σ = [[1, 0.5], [0.5, 1]], Σ⁻¹ = [[1, −0.5], [−0.5, 1]] / 0.75.
+    // μ_a = (2, 0): w = (8/3, −4/3), bias = ½ μ·w = 8/3. μ_b = (0, 2): w = (−4/3, 8/3), bias 8/3.
+    const two: ProfileSample[] = [
+      { joint: 'hip', source: 'walker', side: 'left', z: [3, 1] }, { joint: 'hip', source: 'walker', side: 'right', z: [-1, 1] },
+      { joint: 'knee', source: 'walker', side: 'left', z: [1, 3] }, { joint: 'knee', source: 'walker', side: 'left', z: [-1, 1] },
+    ];
+    const classes = fitDiscriminant(two, 2, 0.5);
+    expect(classes.map((c) => `${c.joint}/${c.source}/${c.subjects}`)).toEqual(['hip/walker/2', 'knee/walker/2']);
+    expect(classes[0]!.weights[0]).toBeCloseTo(8 / 3, 12);
+    expect(classes[0]!.weights[1]).toBeCloseTo(-4 / 3, 12);
+    expect(classes[0]!.bias).toBeCloseTo(8 / 3, 12);
+    expect(classes[1]!.weights[0]).toBeCloseTo(-4 / 3, 12);
+    expect(classes[1]!.weights[1]).toBeCloseTo(8 / 3, 12);
+    expect(() => fitDiscriminant(two, 2, 0)).toThrow(/shrinkage/);
   });
 
-  it('names joint and side of every development subject when left out (noise well below the patterns)', () => {
-    expect(fitted.looJoint).toBe(1);
-    expect(fitted.looSide).toBe(1);
+  const fitted = fitJointProfiles(samples(1, 6, 0.3), couples, S);
+
+  it('fits one class per joint and source (side-only kinds without a joint), chosen by cross-validation', () => {
+    expect(fitted.classes.map((c) => `${c.joint}/${c.source}`)).toEqual(['null/stance', 'ankle/walker', 'hip/edited', 'hip/walker', 'knee/walker', 'shoulder/arm/walker']);
+    expect(fitted.subjects).toEqual({ hip: 12, knee: 6, ankle: 6, 'shoulder/arm': 6 });
+    expect(fitted.sideOnlySubjects).toBe(6);
+    expect(fitted.cv.map((r) => r.shrinkage)).toEqual([...SHRINKAGE_GRID]);
+    const best = fitted.cv.find((r) => r.shrinkage === fitted.shrinkage)!;
+    expect(best.joint).toBe(1);
+    expect(best.side).toBe(1);
   });
 
   it('names a new subject, and its mirror image (the negated vector) on the other side at the same joint', () => {
@@ -55,18 +71,31 @@ describe('joint profiles', () => {
     const a = attributeByProfiles(z, fitted), b = attributeByProfiles(Float64Array.from(z, (x) => -x), fitted);
     expect(a).toMatchObject({ joint: 'ankle', side: 'left' });
     expect(b).toMatchObject({ joint: 'ankle', side: 'right' });
-    expect(a.similarity.ankle).toBeCloseTo(b.similarity.ankle, 12);
-    // The hip's second source names the hip as well.
+    expect(a.scores.ankle).toBeCloseTo(b.scores.ankle, 12);
+    expect(a.scores.ankle).toBeGreaterThan(Math.max(a.scores.hip, a.scores.knee, a.scores['shoulder/arm']));
+    // The hip's second source names the hip as well; a side-only pattern names its side.
     expect(attributeByProfiles(Float64Array.from(pattern(4), (x) => -x), fitted)).toMatchObject({ joint: 'hip', side: 'right' });
+    expect(attributeByProfiles(Float64Array.from(pattern(5), (x) => -x), fitted).side).toBe('right');
   });
 
-  it('refuses development data without every joint, and stored profiles of another shape', () => {
+  it('sees through a large nuisance shared by two joints, which the plain class means do not', () => {
+    // With λ = 1 (no covariance: nearest class mean direction) the nuisance on the hip and knee entries
+    // confuses them; the cross-validated shrinkage learns its direction and discounts it.
+    const noisy = samples(3, 12, 0.2, 3), test = samples(4, 12, 0.2, 3).filter((s) => s.joint === 'hip' || s.joint === 'knee');
+    const accuracy = (p: ReturnType<typeof fitJointProfiles>) => test.filter((s) => attributeByProfiles(s.z, p).joint === s.joint).length / test.length;
+    const learned = fitJointProfiles(noisy, couples, S), plain = fitJointProfiles(noisy, couples, S, { shrinkages: [1] });
+    expect(accuracy(learned)).toBeGreaterThan(0.9);
+    expect(accuracy(learned)).toBeGreaterThan(accuracy(plain) + 0.1);
+  });
+
+  it('refuses development data without every joint, and stored profiles of another shape or kind', () => {
     expect(() => fitJointProfiles(samples(2, 4, 0.1).filter((s) => s.joint !== 'knee'), couples, S)).toThrow(/knee/);
     const extras = JSON.parse(JSON.stringify({ [JOINT_PROFILES_KEY]: fitted })) as Record<string, unknown>;
-    expect(storedJointProfiles(extras, couples, S)?.looJoint).toBe(1);
+    expect(storedJointProfiles(extras, couples, S)?.shrinkage).toBe(fitted.shrinkage);
     expect(storedJointProfiles({}, couples, S)).toBeNull();
     expect(() => storedJointProfiles(extras, couples, 3)).toThrow(/do not fit/);
     expect(() => storedJointProfiles(extras, [...couples].reverse(), S)).toThrow(/do not fit/);
+    expect(() => storedJointProfiles({ [JOINT_PROFILES_KEY]: { prototypes: [] } }, couples, S)).toThrow(/older kind/);
   });
 });
 

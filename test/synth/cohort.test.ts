@@ -1,8 +1,9 @@
 // The invented cohorts of src/synth/cohort.ts: every cohort draws its walkers from its own seeds, so no
 // walker the model trains on, or the joint prototypes are fitted on, appears in an evaluation; the
-// joint-profile development cohort holds the joint-range kinds only, in both arms, on both sides.
+// joint-profile development cohort holds the joint-range kinds in both arms and the side-only kinds by
+// the walker, on both sides, with ids of its own.
 import { describe, expect, it } from 'vitest';
-import { asymmetryCohort, heldOutCohort, JOINT_RANGE_KINDS, jointProfileCohort, normativeCohort, trainingCohort } from '../../src/synth/cohort.js';
+import { asymmetryCohort, heldOutCohort, JOINT_RANGE_KINDS, jointProfileCohort, normativeCohort, SIDE_ONLY_KINDS, trainingCohort } from '../../src/synth/cohort.js';
 
 describe('cohorts', () => {
   const seeds = {
@@ -23,11 +24,12 @@ describe('cohorts', () => {
       }
   });
 
-  it('give the joint-profile development cohort 8 subjects per joint-range kind and stratum in each arm', () => {
+  it('give the joint-profile development cohort 8 subjects per kind and stratum in each arm', () => {
     const dev = jointProfileCohort();
-    // 4 walker-made kinds × 3 strata × 8 + 4 edited joints × 3 strata × 8.
-    expect(dev).toHaveLength(192);
-    expect(new Set(dev.filter((s) => s.arm === 'synth').map((s) => s.kind))).toEqual(new Set(JOINT_RANGE_KINDS));
+    // 4 walker-made joint kinds × 3 strata × 8 + 4 edited joints × 3 strata × 8 + 2 side-only kinds × 3 strata × 8.
+    expect(dev).toHaveLength(240);
+    expect(new Set(dev.filter((s) => s.arm === 'synth').map((s) => s.kind))).toEqual(new Set([...JOINT_RANGE_KINDS, ...SIDE_ONLY_KINDS]));
+    expect(new Set(dev.map((s) => s.id)).size).toBe(240);
     expect(new Set(dev.filter((s) => s.arm === 'edit').map((s) => s.kind))).toEqual(new Set(['hip', 'knee', 'ankle', 'shoulder']));
     expect(dev.some((s) => s.side === 'left') && dev.some((s) => s.side === 'right')).toBe(true);
     expect(dev.every((s) => s.arm !== 'control' && s.id.startsWith('D'))).toBe(true);
