@@ -1,6 +1,7 @@
 // Statistics of the validation scripts: ROC AUC (the Mann-Whitney form), stratified bootstrap intervals,
 // Spearman rank correlation, a cross-validated ridge probe (R² out of fold) and the one-way intraclass
 // correlation ICC(1). Plain functions on number arrays; every one is checked in test/scripts.
+import { choleskyFactor, choleskySolveFactored } from '../src/nn/cholesky.js';
 import { quantile } from '../src/norms/profile.js';
 import { Pcg32 } from '../src/nn/prng.js';
 
@@ -75,22 +76,7 @@ export function spearman(x: readonly number[], y: readonly number[]): number {
 
 /** Solves the symmetric positive definite system A x = b (A n × n, row-major) by Cholesky; A is overwritten. */
 function choleskySolve(A: Float64Array, b: Float64Array, n: number): Float64Array {
-  for (let j = 0; j < n; j++) {
-    let d = A[j * n + j]!;
-    for (let k = 0; k < j; k++) d -= A[j * n + k]! ** 2;
-    if (!(d > 0)) throw new RangeError('the ridge system is not positive definite');
-    const l = Math.sqrt(d);
-    A[j * n + j] = l;
-    for (let i = j + 1; i < n; i++) {
-      let s = A[i * n + j]!;
-      for (let k = 0; k < j; k++) s -= A[i * n + k]! * A[j * n + k]!;
-      A[i * n + j] = s / l;
-    }
-  }
-  const x = Float64Array.from(b);
-  for (let i = 0; i < n; i++) { let s = x[i]!; for (let k = 0; k < i; k++) s -= A[i * n + k]! * x[k]!; x[i] = s / A[i * n + i]!; }
-  for (let i = n - 1; i >= 0; i--) { let s = x[i]!; for (let k = i + 1; k < n; k++) s -= A[k * n + i]! * x[k]!; x[i] = s / A[i * n + i]!; }
-  return x;
+  return choleskySolveFactored(choleskyFactor(A, n, 'the ridge system'), n, b);
 }
 
 /**

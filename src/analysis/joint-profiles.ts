@@ -13,6 +13,7 @@
 // scores each class on either side by |w_c · z| − bias_c (the Gaussian log-likelihood ratio up to terms
 // every class shares). The best class of any kind names the side (the sign of w_c · z); the best joint
 // class names the joint. λ is chosen from a grid by cross-validation on the development subjects.
+import { choleskyFactor, choleskySolveFactored } from '../nn/cholesky.js';
 import type { JointGroup } from './coupling-asymmetry.js';
 
 /** The joints named, in a fixed order. */
@@ -70,67 +71,38 @@ function dot(a: ArrayLike<number>, b: ArrayLike<number>): number {
   return s;
 }
 
-/** Returns the lower Cholesky factor of a symmetric positive-definite n × n matrix (row-major); throws RangeError otherwise. */
-function cholesky(a: Float64Array, n: number): Float64Array {
-  const l = new Float64Array(n * n);
-  for (let i = 0; i < n; i++)
-    for (let j = 0; j <= i; j++) {
-      let s = a[i * n + j]!;
-      for (let k = 0; k < j; k++) s -= l[i * n + k]! * l[j * n + k]!;
-      if (i === j) {
-        if (!(s > 0)) throw new RangeError('the shrunk covariance is not positive definite');
-        l[i * n + i] = Math.sqrt(s);
-      } else l[i * n + j] = s / l[j * n + j]!;
-    }
-  return l;
-}
-
-/** Returns x solving (l lᵀ) x = b. */
-function choleskySolve(l: Float64Array, n: number, b: ArrayLike<number>): Float64Array {
-  const y = new Float64Array(n), x = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    let s = b[i]!;
-    for (let k = 0; k < i; k++) s -= l[i * n + k]! * y[k]!;
-    y[i] = s / l[i * n + i]!;
-  }
-  for (let i = n - 1; i >= 0; i--) {
-    let s = y[i]!;
-    for (let k = i + 1; k < n; k++) s -= l[k * n + i]! * x[k]!;
-    x[i] = s / l[i * n + i]!;
-  }
-  return x;
-}
-
 const classKey = (s: { joint: JointGroup | null; source: string }) => `${s.joint ?? '-'}|${s.source}`;
 
-/** Class means of the side-turned vectors and their pooled within-class scatter (L × L, divided by the subject count). */
-function classMoments(samples: readonly ProfileSample[], L: number): { keys: string[]; labels: { joint: JointGroup | null; source: string }[]; means: Float64Array[]; counts: number[]; scatter: Float64Array } {
-  const keys = [...new Set(samples.map(classKey))].sort();
+/** Class labels, means of the side-turned vectors and counts, with their pooled within-class scatter (L × L, divided by the subject count). */
+interface ClassMoments { labels: { joint: JointGroup | null; source: string }[]; means: Float64Array[]; counts: number[]; scatter: Float64Array }
+
+/** Returns the class moments of side-turned samples. */
+function classMoments(samples: readonly ProfileSample[], L: number): ClassMoments {
+  const keys = [...new Set(samples.map(classKey))].sort(), index = new Map(keys.map((k, c) => [k, c]));
   const labels = keys.map((k) => { const s = samples.find((x) => classKey(x) === k)!; return { joint: s.joint, source: s.source }; });
-  const means = keys.map(() => new Float64Array(L)), counts = keys.map(() => 0);
-  for (const s of samples) {
-    const c = keys.indexOf(classKey(s)), sign = s.side === 'left' ? 1 : -1, m = means[c]!;
+  const means = keys.map(() => new Float64Array(L)), counts = keys.map(() => 0), of = samples.map((s) => index.get(classKey(s))!);
+  samples.forEach((s, n) => {
+    const sign = s.side === 'left' ? 1 : -1, m = means[of[n]!]!;
     for (let i = 0; i < L; i++) m[i]! += sign * s.z[i]!;
-    counts[c]!++;
-  }
+    counts[of[n]!]!++;
+  });
   means.forEach((m, c) => { for (let i = 0; i < L; i++) m[i]! /= counts[c]!; });
   const scatter = new Float64Array(L * L), d = new Float64Array(L);
-  for (const s of samples) {
-    const m = means[keys.indexOf(classKey(s))]!, sign = s.side === 'left' ? 1 : -1;
+  samples.forEach((s, n) => {
+    const m = means[of[n]!]!, sign = s.side === 'left' ? 1 : -1;
     for (let i = 0; i < L; i++) d[i] = sign * s.z[i]! - m[i]!;
     for (let i = 0; i < L; i++) {
       const di = d[i]!, row = i * L;
       if (di !== 0) for (let j = 0; j <= i; j++) scatter[row + j]! += di * d[j]!;
     }
-  }
+  });
   for (let i = 0; i < L; i++) for (let j = 0; j <= i; j++) { const v = scatter[i * L + j]! / samples.length; scatter[i * L + j] = v; scatter[j * L + i] = v; }
-  return { keys, labels, means, counts, scatter };
+  return { labels, means, counts, scatter };
 }
 
-/** Returns the discriminant classes fitted on side-turned samples with shrinkage λ (0 < λ ≤ 1). */
-export function fitDiscriminant(samples: readonly ProfileSample[], L: number, shrinkage: number): DiscriminantClass[] {
+/** Returns the discriminant classes of given moments with shrinkage λ (0 < λ ≤ 1). */
+function discriminantOf({ labels, means, counts, scatter }: ClassMoments, L: number, shrinkage: number): DiscriminantClass[] {
   if (!(shrinkage > 0 && shrinkage <= 1)) throw new RangeError(`shrinkage must lie in (0, 1] (got ${shrinkage})`);
-  const { labels, means, counts, scatter } = classMoments(samples, L);
   let trace = 0;
   for (let i = 0; i < L; i++) trace += scatter[i * L + i]!;
   // A scatter of zero (identical subjects) still needs a positive target.
@@ -138,11 +110,16 @@ export function fitDiscriminant(samples: readonly ProfileSample[], L: number, sh
   const a = new Float64Array(L * L);
   for (let i = 0; i < L * L; i++) a[i] = (1 - shrinkage) * scatter[i]!;
   for (let i = 0; i < L; i++) a[i * L + i]! += shrinkage * target;
-  const l = cholesky(a, L);
+  const l = choleskyFactor(a, L, 'the shrunk covariance');
   return labels.map(({ joint, source }, c) => {
-    const w = choleskySolve(l, L, means[c]!);
+    const w = choleskySolveFactored(l, L, means[c]!);
     return { joint, source, weights: Array.from(w), bias: 0.5 * dot(w, means[c]!), subjects: counts[c]! };
   });
+}
+
+/** Returns the discriminant classes fitted on side-turned samples with shrinkage λ (0 < λ ≤ 1). */
+export function fitDiscriminant(samples: readonly ProfileSample[], L: number, shrinkage: number): DiscriminantClass[] {
+  return discriminantOf(classMoments(samples, L), L, shrinkage);
 }
 
 /** Returns the attribution of a signed couple vector by discriminant classes (at least one joint class). */
@@ -171,21 +148,23 @@ export function fitJointProfiles(samples: readonly ProfileSample[], couples: rea
   for (const j of JOINT_GROUPS) if (!samples.some((s) => s.joint === j)) throw new RangeError(`joint profiles need development subjects of every joint (none for the ${j})`);
   const folds = Math.max(2, Math.min(options.folds ?? CV_FOLDS, samples.length));
   const jointSubjects = samples.filter((s) => s.joint !== null).length;
-  const cv = (options.shrinkages ?? SHRINKAGE_GRID).map((shrinkage) => {
-    let joint = 0, side = 0;
-    for (let f = 0; f < folds; f++) {
-      const train = samples.filter((_, i) => i % folds !== f);
-      if (!JOINT_GROUPS.every((j) => train.some((s) => s.joint === j))) continue;
-      const classes = fitDiscriminant(train, L, shrinkage);
+  // The moments of each fold's training part do not depend on λ: computed once per fold.
+  const grid = options.shrinkages ?? SHRINKAGE_GRID, hits = grid.map(() => ({ joint: 0, side: 0 }));
+  for (let f = 0; f < folds; f++) {
+    const train = samples.filter((_, i) => i % folds !== f);
+    if (!JOINT_GROUPS.every((j) => train.some((s) => s.joint === j))) continue;
+    const moments = classMoments(train, L);
+    grid.forEach((shrinkage, g) => {
+      const classes = discriminantOf(moments, L, shrinkage);
       samples.forEach((s, i) => {
         if (i % folds !== f) return;
         const a = attribute(s.z, classes);
-        if (a.side === s.side) side++;
-        if (s.joint !== null && a.joint === s.joint) joint++;
+        if (a.side === s.side) hits[g]!.side++;
+        if (s.joint !== null && a.joint === s.joint) hits[g]!.joint++;
       });
-    }
-    return { shrinkage, joint: joint / jointSubjects, side: side / samples.length };
-  });
+    });
+  }
+  const cv = grid.map((shrinkage, g) => ({ shrinkage, joint: hits[g]!.joint / jointSubjects, side: hits[g]!.side / samples.length }));
   const best = cv.reduce((b, r) => (r.joint + r.side > b.joint + b.side || (r.joint + r.side === b.joint + b.side && r.shrinkage > b.shrinkage) ? r : b));
   const subjects = Object.fromEntries(JOINT_GROUPS.map((j) => [j, samples.filter((s) => s.joint === j).length])) as Record<JointGroup, number>;
   return {
