@@ -22,7 +22,9 @@ import { synthesizeTake } from '../src/synth/index.js';
 /** What one subject contributes to the validation. */
 export interface AsymmetryTakeResult {
   id: string;
+  /** The take score (discriminant evidence with profiles, else the pair distance) and the pair distance. */
   score: number;
+  distance: number;
   ciLow: number;
   ciHigh: number;
   side: 'left' | 'right';
@@ -121,7 +123,7 @@ export function evaluateAsymmetryTake(subject: AsymmetrySubject, modelPath: stri
     mirrored = { score: am.score, side: am.side, swapError, rawSwapError, staticRange: hi - lo };
   }
   return {
-    id: subject.id, score: a.score, ciLow: a.ciLow, ciHigh: a.ciHigh, side: a.side, joint: a.joint, attribution: a.attribution,
+    id: subject.id, score: a.score, distance: a.distance, ciLow: a.ciLow, ciHigh: a.ciHigh, side: a.side, joint: a.joint, attribution: a.attribution,
     nodeRule: { joint: rule.joint, side: rule.side }, coupleVector: Array.from(coupleVector(f, norms)), classic, staticDims: S, dynamicDims: D,
     staticMean: Array.from(f.staticMean), staticWindows, dynamicWindows, phase, mirror: mirrored,
     warnings: imported.warnings,

@@ -7,7 +7,9 @@
 // intervals, side and joint naming, severity correlation, the factor probes, the mirror, symmetric-take
 // and speed-sweep tests, and the same key figures for each ablation model given with --ablation.
 //
-// Run: npm run eval:asymmetry [-- --json] [--model FILE] [--ablation NAME=FILE ...] [--quick] [--workers N]
+// Run: npm run eval:asymmetry [-- --json] [--model FILE] [--ablation NAME=FILE ...] [--quick] [--workers N] [--results FILE]
+// (--results writes every subject's raw reading of the main model, with its arm, kind, side and severity, as JSON.)
+import { renameSync, writeFileSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { parseArgs } from 'node:util';
 import { Piscina } from 'piscina';
@@ -16,14 +18,14 @@ import { defaultModelPath } from '../src/model/default-model.js';
 import { loadModel } from '../src/model/modelfile.js';
 import { mirrorCouples } from '../src/analysis/coupling-asymmetry.js';
 import { DEFAULT_PAIRS } from '../src/motion/roles.js';
-import { asymmetryCohort, SEVERITY_STRATA, type AsymmetrySubject } from '../src/synth/cohort.js';
+import { asymmetryCohort, jointOfKind, SEVERITY_STRATA, type AsymmetrySubject } from '../src/synth/cohort.js';
 import type { AsymmetryTakeResult } from './asymmetry-take.js';
 import { aucInterval, icc1, proportionInterval, quantile, ridgeProbeR2, rocAuc, spearman } from './eval-stats.js';
 
 const { values: v } = parseArgs({
   options: {
     model: { type: 'string' }, ablation: { type: 'string', multiple: true }, json: { type: 'boolean' }, quick: { type: 'boolean' },
-    workers: { type: 'string' }, quiet: { type: 'boolean' },
+    workers: { type: 'string' }, quiet: { type: 'boolean' }, results: { type: 'string' },
   },
 });
 const modelPath = v.model ?? defaultModelPath();
@@ -45,7 +47,7 @@ const symmetric = extra('VS001', 1.2);
 const sweep = [0.9, 1.0, 1.1, 1.2, 1.3, 1.4, 1.5, 1.6].map((s, i) => extra(`VW${String(i + 1).padStart(3, '0')}`, s));
 const mirrorIds = new Set(cohort.filter((s, i) => s.arm !== 'control' && i % 3 === 0).map((s) => s.id));
 
-interface Candidate { name: string; family: 'coupling' | 'SI' | 'CRP' | 'VC' }
+interface Candidate { name: string; family: 'coupling' | 'distance' | 'SI' | 'CRP' | 'VC' }
 
 async function scoreAll(path: string, label: string): Promise<Map<string, AsymmetryTakeResult>> {
   const pool = new Piscina({ filename: new URL('./asymmetry-worker.ts', import.meta.url).href, execArgv: ['--import', 'tsx'], minThreads: workers, maxThreads: workers });
@@ -72,7 +74,7 @@ const inStratum = (s: AsymmetrySubject, lo: number, hi: number) => s.severity >=
 
 /** Returns a candidate's score for a subject (null where not measurable). */
 function scoreOf(r: AsymmetryTakeResult, c: Candidate): number | null {
-  return c.family === 'coupling' ? r.score : r.classic[c.name] ?? null;
+  return c.family === 'coupling' ? r.score : c.family === 'distance' ? r.distance : r.classic[c.name] ?? null;
 }
 
 /** AUC of impaired (subjects `pos`) against the controls, with its interval; subjects lacking the score are left out. */
@@ -102,26 +104,28 @@ function byKind(ss: readonly AsymmetrySubject[]): Map<string, AsymmetrySubject[]
   return out;
 }
 
-const JOINT_OF_KIND: Record<string, string> = { knee: 'knee', hip: 'hip', ankle: 'ankle', arm: 'shoulder/arm', shoulder: 'shoulder/arm' };
 
 /** Every figure of one model. */
 function summarise(results: Map<string, AsymmetryTakeResult>) {
   const coupling: Candidate = { name: 'coupling score', family: 'coupling' };
-  const candidates = [coupling, bestOf(results, 'SI'), bestOf(results, 'CRP'), bestOf(results, 'VC')];
+  // Beside the take score, the pair distance it replaces when the model file holds a joint discriminant.
+  const distance: Candidate = { name: 'coupling pair distance', family: 'distance' };
+  const candidates = [coupling, distance, bestOf(results, 'SI'), bestOf(results, 'CRP'), bestOf(results, 'VC')];
+  const cellName = (c: Candidate) => (c.family === 'coupling' ? 'coupling' : c.family === 'distance' ? c.name : `${c.family}: ${c.name}`);
   const strata: { name: string; lo: number; hi: number }[] = [
     ...SEVERITY_STRATA.map(([lo, hi]) => ({ name: `${Math.round(lo * 100)}-${Math.round(hi * 100)} %`, lo, hi })),
     { name: '≥ 20 %', lo: 0.2, hi: 0.4 },
   ];
   const aucTable = (['synth', 'edit'] as const).map((arm) => ({
     arm,
-    strata: strata.map((st) => ({ stratum: st.name, cells: Object.fromEntries(candidates.map((c) => [c.family === 'coupling' ? 'coupling' : `${c.family}: ${c.name}`, auc(results, c, byArm(arm).filter((s) => inStratum(s, st.lo, st.hi)))])) })),
+    strata: strata.map((st) => ({ stratum: st.name, cells: Object.fromEntries(candidates.map((c) => [cellName(c), auc(results, c, byArm(arm).filter((s) => inStratum(s, st.lo, st.hi)))])) })),
   }));
   const impaired = cohort.filter((s) => s.arm !== 'control');
   const sideHits = (ss: AsymmetrySubject[]) => ss.map((s) => results.get(s.id)!.side === s.side);
   const rate = (h: boolean[]) => ({ rate: r3(h.filter(Boolean).length / Math.max(1, h.length)), ci: proportionInterval(h, 1000, 5).map(r3), n: h.length });
   const side = { all: rate(sideHits(impaired)), synth: rate(sideHits(byArm('synth'))), edit: rate(sideHits(byArm('edit'))), severity20: rate(sideHits(impaired.filter((s) => s.severity >= 0.2))) };
-  const jointKinds = impaired.filter((s) => s.kind! in JOINT_OF_KIND);
-  const jointHits = (ss: AsymmetrySubject[]) => ss.map((s) => results.get(s.id)!.joint === JOINT_OF_KIND[s.kind!]);
+  const jointKinds = impaired.filter((s) => jointOfKind(s.kind) !== null);
+  const jointHits = (ss: AsymmetrySubject[]) => ss.map((s) => results.get(s.id)!.joint === jointOfKind(s.kind));
   const jointGroups = [...byKind(jointKinds)];
   const joint = {
     all: rate(jointHits(jointKinds)),
@@ -136,7 +140,7 @@ function summarise(results: Map<string, AsymmetryTakeResult>) {
   const attribution = results.get(impaired[0]!.id)!.attribution;
   const nodeRule = {
     side: rate(impaired.map((s) => results.get(s.id)!.nodeRule.side === s.side)).rate,
-    joint: rate(jointKinds.map((s) => results.get(s.id)!.nodeRule.joint === JOINT_OF_KIND[s.kind!])).rate,
+    joint: rate(jointKinds.map((s) => results.get(s.id)!.nodeRule.joint === jointOfKind(s.kind))).rate,
   };
   const severity = Object.fromEntries([...byKind(impaired)].map(([k, ss]) => [k, r3(spearman(ss.map((s) => s.severity), ss.map((s) => results.get(s.id)!.score)))]));
   // Probes on the static factors: severity from the absolute mirror differences of the take's means.
@@ -182,7 +186,7 @@ function summarise(results: Map<string, AsymmetryTakeResult>) {
   const controlSd = Math.sqrt(controlScores.reduce((a, b) => a + (b - mean) ** 2, 0) / (controlScores.length - 1));
   const sweepScores = sweep.map((s) => results.get(s.id)!.score);
   return {
-    candidates: candidates.map((c) => c.family === 'coupling' ? 'coupling score' : `${c.family}: ${c.name}`),
+    candidates: candidates.map((c) => (c.family === 'coupling' ? 'coupling score' : cellName(c))),
     auc: aucTable, side, joint, attribution, carried_node_rule: nodeRule, severity_spearman: severity,
     probes: { severity_r2: r3(sevProbe.r2), severity_subjects: probeSubjects.length, phase_r2: phase, static_icc: icc },
     mirror,
@@ -204,7 +208,7 @@ function acceptance(s: Summary) {
   let within = true;
   for (const arm of s.auc) for (const st of arm.strata) {
     const c = st.cells.coupling!;
-    for (const [k, x] of Object.entries(st.cells)) if (k !== 'coupling' && c.auc < x.auc - (x.ci[1] - x.ci[0]) / 2) within = false;
+    for (const [k, x] of Object.entries(st.cells)) if (k !== 'coupling' && k !== 'coupling pair distance' && c.auc < x.auc - (x.ci[1] - x.ci[0]) / 2) within = false;
   }
   checks.push({ check: 'in no stratum below the best classic measure by more than its interval', value: within ? 'holds' : 'fails somewhere (see the table)', pass: within });
   checks.push({ check: 'side named for ≥ 90 % of impaired subjects', value: `${(s.side.all.rate * 100).toFixed(1)} %`, pass: s.side.all.rate >= 0.9 });
@@ -222,7 +226,13 @@ function acceptance(s: Summary) {
 }
 
 const t0 = performance.now();
-const main = summarise(await scoreAll(modelPath, 'model'));
+const mainResults = await scoreAll(modelPath, 'model');
+if (v.results) {
+  const tmp = `${v.results}.tmp-${process.pid}`;
+  writeFileSync(tmp, JSON.stringify([...cohort, symmetric, ...sweep].map((s) => ({ id: s.id, arm: s.arm, kind: s.kind, side: s.side, severity: s.severity, result: mainResults.get(s.id) }))));
+  renameSync(tmp, v.results);
+}
+const main = summarise(mainResults);
 const ablationRows: { name: string; path: string; summary: Summary }[] = [];
 for (const a of ablations) ablationRows.push({ ...a, summary: summarise(await scoreAll(a.path, a.name)) });
 const checks = acceptance(main);

@@ -5,10 +5,13 @@
 // the normative cohort's mean and SD of the same difference (per factor dimension; the cohort counts each
 // control with its mirror image, so μ_p = 0 and a take scores as its mirror image does): the pair score is
 // the RMS over dimensions of (d_p − μ_p) / σ_p. The interval is a percentile bootstrap over blocks of
-// windows (about a stride each), the take score the mean of the five highest pair scores, the joint the
+// windows (about a stride each), the take's pair distance the mean of the five highest pair scores, the joint the
 // one whose carried nodes' couples score highest (the hip carries the knee, the knee the ankle, ...), and
 // the side that of the joint's nodes lying farther from the cohort (a node's distance: the mean z-scored
-// RMS distance of its pairs' factors from the cohort's).
+// RMS distance of its pairs' factors from the cohort's). With a fitted joint discriminant
+// (joint-profiles.ts) that names joint and side, the take score is its evidence (the log-likelihood ratio
+// of the best-matching impairment against a normal take), compared with development controls'; without
+// one, the score is the pair distance, compared with the normative controls'.
 import { DEFAULT_PAIRS, MOTION_NODES } from '../motion/roles.js';
 import { Pcg32 } from '../nn/prng.js';
 import type { TakeFactors } from './factors.js';
@@ -41,9 +44,15 @@ export interface PairAsymmetry {
 
 /** A take's coupling asymmetry. */
 export interface CouplingAsymmetry {
+  /** The take score (see scoreKind) with its bootstrap interval, and the controls' median and 90th percentile of the same score. */
   score: number;
   ciLow: number;
   ciHigh: number;
+  scoreKind: 'discriminant evidence' | 'pair distance';
+  controlP50: number;
+  controlP90: number;
+  /** The mean of the five highest pair scores (the score without a discriminant). */
+  distance: number;
   side: 'left' | 'right';
   joint: JointGroup;
   ranked: PairAsymmetry[];
@@ -200,6 +209,7 @@ export function couplingAsymmetry(f: TakeFactors, norms: CouplingNorms, options:
   const block = Math.max(1, options.blockWindows ?? 2), blocks = Math.ceil(n / block);
   const R = options.replicates ?? 200, rng = new Pcg32(options.seed ?? 1, 0x626f6f74);
   const boot = couples.map(() => new Float64Array(R)), bootTake = new Float64Array(R);
+  const learnedBoot = options.profiles ? new Float64Array(R) : null;
   const pick: number[] = [], buf = new Float64Array(f.pairs * S);
   for (let r = 0; r < R; r++) {
     pick.length = 0;
@@ -210,6 +220,7 @@ export function couplingAsymmetry(f: TakeFactors, norms: CouplingNorms, options:
     meanOfWindows(f, pick, buf);
     const rs = couples.map((p, k) => (boot[k]![r] = coupleScore(buf, p, S, norms)));
     bootTake[r] = takeScore(rs);
+    if (learnedBoot) learnedBoot[r] = attributeByProfiles(coupleVectorOf(buf, S, norms), options.profiles!).evidence;
   }
   const q = (xs: Float64Array, p: number) => { const s = Float64Array.from(xs).sort(); return s[Math.min(s.length - 1, Math.max(0, Math.round(p * (s.length - 1))))]!; };
   // Node deviation: the mean distance from the cohort of the pairs a node belongs to (both orders).
@@ -255,11 +266,15 @@ export function couplingAsymmetry(f: TakeFactors, norms: CouplingNorms, options:
   const learned = options.profiles ? attributeByProfiles(coupleVectorOf(mean, S, norms), options.profiles) : null;
   const joint = learned?.joint ?? byNodes;
   const side: 'left' | 'right' = learned?.side ?? (lean >= 0 ? 'left' : 'right');
-  const score = takeScore(scores);
-  const ciLow = q(bootTake, 0.025), ciHigh = q(bootTake, 0.975);
+  const distance = takeScore(scores);
+  const scoreKind = learned ? 'discriminant evidence' : 'pair distance';
+  const score = learned ? learned.evidence : distance;
+  const takeBoot = learnedBoot ?? bootTake, ciLow = q(takeBoot, 0.025), ciHigh = q(takeBoot, 0.975);
+  const controlP50 = learned ? options.profiles!.controls.evidenceP50 : norms.controlScoreP50;
+  const controlP90 = learned ? options.profiles!.controls.evidenceP90 : norms.controlScoreP90;
   const top = ranked[0]!;
-  const summary = `Coupling asymmetry ${score.toFixed(2)} (95 % interval ${ciLow.toFixed(2)}-${ciHigh.toFixed(2)}; control takes: median ${norms.controlScoreP50.toFixed(2)}, 90th percentile ${norms.controlScoreP90.toFixed(2)}): the ${side} side lies farther from the cohort, most around the ${joint}; the largest difference is ${top.pair} against ${top.mirror} (${top.score.toFixed(2)}).`;
-  return { score, ciLow, ciHigh, side, joint, ranked, joints, attribution: learned ? 'profiles' : 'carried nodes', jointScores: learned?.scores ?? null, summary };
+  const summary = `Coupling asymmetry ${score.toFixed(2)} (${scoreKind}; 95 % interval ${ciLow.toFixed(2)}-${ciHigh.toFixed(2)}; control takes: median ${controlP50.toFixed(2)}, 90th percentile ${controlP90.toFixed(2)}): the ${side} side lies farther from the cohort, most around the ${joint}; the largest difference is ${top.pair} against ${top.mirror} (${top.score.toFixed(2)}).`;
+  return { score, ciLow, ciHigh, scoreKind, controlP50, controlP90, distance, side, joint, ranked, joints, attribution: learned ? 'profiles' : 'carried nodes', jointScores: learned?.scores ?? null, summary };
 }
 
 /** The key of the normative figures among a model file's extras. */

@@ -13,6 +13,12 @@
 // scores each class on either side by |w_c · z| − bias_c (the Gaussian log-likelihood ratio up to terms
 // every class shares). The best class of any kind names the side (the sign of w_c · z); the best joint
 // class names the joint. λ is chosen from a grid by cross-validation on the development subjects.
+//
+// The best class score of any kind is also the take's evidence of a one-sided impairment: against a
+// normal take (mean 0 by the norms' construction, same covariance) it is the log-likelihood ratio of the
+// best-matching impairment, so it grows with severity along that impairment's direction instead of with
+// every dimension's noise. Its 50th and 90th percentiles over development controls the fit never saw
+// are stored beside the classes.
 import { choleskyFactor, choleskySolveFactored } from '../nn/cholesky.js';
 import type { JointGroup } from './coupling-asymmetry.js';
 
@@ -46,6 +52,8 @@ export interface JointProfiles {
   sideOnlySubjects: number;
   /** Cross-validated accuracy per shrinkage tried: joint (of the joint subjects) and side (of all). */
   cv: { shrinkage: number; joint: number; side: number }[];
+  /** Evidence (best class score) of development controls outside the fit: count, median, 90th percentile. */
+  controls: { subjects: number; evidenceP50: number; evidenceP90: number };
 }
 
 /** One development subject: its signed couple vector, impaired joint (null: a side-only impairment), how it was impaired, and side. */
@@ -63,6 +71,8 @@ export interface ProfileAttribution {
   side: 'left' | 'right';
   /** Per joint, the best score |w · z| − bias of its classes (larger: more like that joint's impairment). */
   scores: Record<JointGroup, number>;
+  /** The best score of any class: the log-likelihood ratio of the best-matching impairment against a normal take. */
+  evidence: number;
 }
 
 function dot(a: ArrayLike<number>, b: ArrayLike<number>): number {
@@ -134,17 +144,20 @@ function attribute(z: ArrayLike<number>, classes: readonly DiscriminantClass[]):
       if (sc > bestJoint) { bestJoint = sc; joint = c.joint; }
     }
   }
-  return { joint, side, scores };
+  return { joint, side, scores, evidence: bestAny };
 }
 
 /**
  * Returns the discriminant fitted on development subjects, its shrinkage chosen by `CV_FOLDS`-fold
  * cross-validation (subject i in fold i mod folds) for the best mean of joint and side accuracy (ties: the
- * larger λ). Throws RangeError without a subject of every joint or when the vectors do not fit.
+ * larger λ), with the evidence percentiles of `controls` (signed couple vectors of control takes, at least
+ * three, not among the samples). Throws RangeError without a subject of every joint, with too few controls,
+ * or when the vectors do not fit.
  */
-export function fitJointProfiles(samples: readonly ProfileSample[], couples: readonly string[], staticDims: number, options: { shrinkages?: readonly number[]; folds?: number } = {}): JointProfiles {
+export function fitJointProfiles(samples: readonly ProfileSample[], controls: readonly ArrayLike<number>[], couples: readonly string[], staticDims: number, options: { shrinkages?: readonly number[]; folds?: number } = {}): JointProfiles {
   const L = couples.length * staticDims;
-  if (samples.some((s) => s.z.length !== L)) throw new RangeError(`every vector needs ${couples.length} couples × ${staticDims} dimensions`);
+  if (samples.some((s) => s.z.length !== L) || controls.some((z) => z.length !== L)) throw new RangeError(`every vector needs ${couples.length} couples × ${staticDims} dimensions`);
+  if (controls.length < 3) throw new RangeError(`the evidence percentiles need at least three control takes (got ${controls.length})`);
   for (const j of JOINT_GROUPS) if (!samples.some((s) => s.joint === j)) throw new RangeError(`joint profiles need development subjects of every joint (none for the ${j})`);
   const folds = Math.max(2, Math.min(options.folds ?? CV_FOLDS, samples.length));
   const jointSubjects = samples.filter((s) => s.joint !== null).length;
@@ -167,9 +180,12 @@ export function fitJointProfiles(samples: readonly ProfileSample[], couples: rea
   const cv = grid.map((shrinkage, g) => ({ shrinkage, joint: hits[g]!.joint / jointSubjects, side: hits[g]!.side / samples.length }));
   const best = cv.reduce((b, r) => (r.joint + r.side > b.joint + b.side || (r.joint + r.side === b.joint + b.side && r.shrinkage > b.shrinkage) ? r : b));
   const subjects = Object.fromEntries(JOINT_GROUPS.map((j) => [j, samples.filter((s) => s.joint === j).length])) as Record<JointGroup, number>;
+  const classes = fitDiscriminant(samples, L, best.shrinkage);
+  const evidence = controls.map((z) => attribute(z, classes).evidence).sort((a, b) => a - b);
+  const at = (q: number) => evidence[Math.min(evidence.length - 1, Math.round(q * (evidence.length - 1)))]!;
   return {
-    method: 'shrinkage-discriminant', staticDims, couples: [...couples], classes: fitDiscriminant(samples, L, best.shrinkage), shrinkage: best.shrinkage,
-    subjects, sideOnlySubjects: samples.length - jointSubjects, cv,
+    method: 'shrinkage-discriminant', staticDims, couples: [...couples], classes, shrinkage: best.shrinkage,
+    subjects, sideOnlySubjects: samples.length - jointSubjects, cv, controls: { subjects: evidence.length, evidenceP50: at(0.5), evidenceP90: at(0.9) },
   };
 }
 
@@ -189,10 +205,11 @@ export function storedJointProfiles(extras: Record<string, unknown>, couples: re
   const L = couples.length * staticDims;
   const finite = (x: unknown) => typeof x === 'number' && Number.isFinite(x);
   const ok = (a: unknown) => Array.isArray(a) && a.length === L && a.every(finite);
-  if (!v || v.method !== 'shrinkage-discriminant') throw new RangeError('the stored joint profiles are of an older kind: refit them (npm run fit:joint-profiles)');
+  if (!v || v.method !== 'shrinkage-discriminant' || !v.controls) throw new RangeError('the stored joint profiles are of an older kind: refit them (npm run fit:joint-profiles)');
   if (v.staticDims !== staticDims || !Array.isArray(v.couples) || v.couples.join() !== couples.join() || !Array.isArray(v.classes) || v.classes.length === 0
     || !v.classes.every((c) => c && (c.joint === null || JOINT_GROUPS.includes(c.joint)) && typeof c.source === 'string' && ok(c.weights) && finite(c.bias))
-    || !JOINT_GROUPS.every((j) => v.classes!.some((c) => c.joint === j)))
+    || !JOINT_GROUPS.every((j) => v.classes!.some((c) => c.joint === j))
+    || !(v.controls.subjects >= 3 && finite(v.controls.evidenceP50) && finite(v.controls.evidenceP90)))
     throw new RangeError(`the stored joint profiles do not fit the model (${couples.length} couples × ${staticDims} dimensions)`);
   return v as JointProfiles;
 }

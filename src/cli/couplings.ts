@@ -31,7 +31,8 @@ const r3 = (v: number) => (Number.isFinite(v) ? Math.round(v * 1000) / 1000 : nu
 /** Returns the JSON of the coupling asymmetry. */
 export function asymmetryJson(a: CouplingAsymmetry): Record<string, unknown> {
   return {
-    score: r3(a.score), ci_low: r3(a.ciLow), ci_high: r3(a.ciHigh), side: a.side, joint: a.joint,
+    score: r3(a.score), ci_low: r3(a.ciLow), ci_high: r3(a.ciHigh), score_kind: a.scoreKind,
+    control_p50: r3(a.controlP50), control_p90: r3(a.controlP90), distance: r3(a.distance), side: a.side, joint: a.joint,
     attribution: a.attribution,
     joint_scores: a.jointScores ? Object.fromEntries(Object.entries(a.jointScores).map(([k, v]) => [k, r3(v)])) : null,
     joints: Object.fromEntries(Object.entries(a.joints).map(([k, v]) => [k, r3(v)])),
@@ -98,7 +99,7 @@ export function register(program: Command): void {
     if (asym) {
       lines.push(`  ${asym.summary}`, '  largest pair differences (score, 95 % interval, side farther from the cohort):');
       for (const r of asym.ranked.slice(0, 8)) lines.push(`    ${r.pair.padEnd(24)} vs ${r.mirror.padEnd(24)} ${r.score.toFixed(2).padStart(6)}  ${r.ciLow.toFixed(2)}-${r.ciHigh.toFixed(2)}  ${r.side}`);
-      if (asym.jointScores) lines.push(`  joint and side named by the model's learned joint discriminant; scores: ${Object.entries(asym.jointScores).map(([k, v]) => `${k} ${v.toFixed(2)}`).join(', ')}`);
+      if (asym.jointScores) lines.push(`  joint, side and take score from the model's learned joint discriminant (the score: its evidence, a log-likelihood ratio of the best-matching one-sided impairment against a normal take); pair distance (mean of the five largest pair scores) ${asym.distance.toFixed(2)}; scores by joint: ${Object.entries(asym.jointScores).map(([k, v]) => `${k} ${v.toFixed(2)}`).join(', ')}`);
       lines.push(`  by joint: ${Object.entries(asym.joints).map(([k, v]) => `${k} ${v.toFixed(2)}`).join(', ')}`, `    (each joint scored by the couples of the nodes it carries: hip the knee, knee the ankle, ankle the toe, shoulder the elbow and wrist${asym.jointScores ? '' : '; this names the joint'})`);
     } else lines.push(`  ${modelPath} holds no normative coupling figures, so no asymmetry is scored`);
     lines.push('  classic left-right differences, 95 % bootstrap intervals over cycles:');

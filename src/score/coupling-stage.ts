@@ -13,7 +13,8 @@ const empty = (): Record<string, number | null> => Object.fromEntries(METRICS.ma
 /** The coupling stage: take score with its interval, the side (1 = right, 0 = left) and the controls' 90th percentile. */
 export const COUPLING_STAGE: ScoreStage = {
   name: 'coupling',
-  version: 1,
+  // 2: with a joint discriminant the asymmetry score is its evidence (a log-likelihood ratio), not the pair distance.
+  version: 2,
   metrics: METRICS,
   run(ctx): StageResult {
     if (!ctx.modelFile) return { metrics: empty(), detail: { model: null } };
@@ -23,10 +24,10 @@ export const COUPLING_STAGE: ScoreStage = {
     const track = modelTrack(ctx, c.rate);
     if (track.steps <= c.observe) return { metrics: empty(), usedModel: true, detail: { model: ctx.modelFile }, warnings: [`the take is too short for coupling factors (it needs more than ${(c.observe / c.rate).toFixed(1)} s)`] };
     const a = couplingAsymmetry(takeFactors(model, track), norms, { profiles: storedJointProfiles(loaded.extras, coupleNames(), c.staticDims) });
-    const flagged = a.score > norms.controlScoreP90;
+    const flagged = a.score > a.controlP90;
     return {
-      metrics: { asymmetry_score: a.score, asymmetry_ci_low: a.ciLow, asymmetry_ci_high: a.ciHigh, side_right: a.side === 'right' ? 1 : 0, control_p90: norms.controlScoreP90 },
-      flags: flagged ? [{ stage: 'coupling', measure: 'asymmetry', value: a.score, text: `coupling asymmetry ${a.score.toFixed(2)} above the controls' 90th percentile (${norms.controlScoreP90.toFixed(2)}): ${a.side} side, around the ${a.joint}` }] : [],
+      metrics: { asymmetry_score: a.score, asymmetry_ci_low: a.ciLow, asymmetry_ci_high: a.ciHigh, side_right: a.side === 'right' ? 1 : 0, control_p90: a.controlP90 },
+      flags: flagged ? [{ stage: 'coupling', measure: 'asymmetry', value: a.score, text: `coupling asymmetry ${a.score.toFixed(2)} (${a.scoreKind}) above the controls' 90th percentile (${a.controlP90.toFixed(2)}): ${a.side} side, around the ${a.joint}` }] : [],
       detail: { model: ctx.modelFile, side: a.side, joint: a.joint, summary: a.summary, top: a.ranked.slice(0, 5).map((r) => ({ pair: r.pair, mirror: r.mirror, score: r.score, ci_low: r.ciLow, ci_high: r.ciHigh, side: r.side })) },
       usedModel: true,
     };

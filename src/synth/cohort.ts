@@ -123,6 +123,12 @@ export function normativeCohort(count = 48, duration = 30): CohortSubject[] {
 
 /** One-sided impairments of the asymmetry validation cohort. */
 export type AsymmetryKind = 'knee' | 'hip' | 'ankle' | 'stance' | 'step' | 'arm';
+
+/** Returns the joint a subject's impairment kind narrows (reduced arm swing and the edited shoulder: the shoulder/arm), or null for a kind of no single joint (stance, step, none). */
+export function jointOfKind(kind: string | null): 'hip' | 'knee' | 'ankle' | 'shoulder/arm' | null {
+  if (kind === 'arm' || kind === 'shoulder') return 'shoulder/arm';
+  return kind === 'hip' || kind === 'knee' || kind === 'ankle' ? kind : null;
+}
 export const ASYMMETRY_KINDS: readonly AsymmetryKind[] = ['knee', 'hip', 'ankle', 'stance', 'step', 'arm'];
 /** Joints whose rotation channels the second arm narrows after the fact (the shoulder: the arm swing). */
 export type EditedJoint = 'hip' | 'knee' | 'ankle' | 'shoulder';
@@ -177,6 +183,14 @@ export const SIDE_ONLY_KINDS: readonly AsymmetryKind[] = ['stance', 'step'];
  * random sides. The joint attribution's discriminant is fitted on it (src/analysis/joint-profiles.ts),
  * never on the validation cohort.
  */
+/**
+ * Returns the development cohort's controls (seeds 68000+, ids DC…): walkers with natural left/right
+ * differences, unseen by the discriminant's fit, whose evidence scores give the controls' percentiles.
+ */
+export function jointProfileControls(count = 48, duration = 30): AsymmetrySubject[] {
+  return asymmetryCohort({ controls: count, perStratum: 0, editPerStratum: 0, duration, seeds: { walkers: 68000, edited: 69000, pick: 6868 }, prefix: 'D' });
+}
+
 export function jointProfileCohort(perStratum = 8, duration = 30): AsymmetrySubject[] {
   return [
     ...asymmetryCohort({ controls: 0, perStratum, editPerStratum: perStratum, duration, kinds: JOINT_RANGE_KINDS, seeds: { walkers: 60000, edited: 65000, pick: 6161 }, prefix: 'D' }),

@@ -4,7 +4,9 @@
 // second source for the hip, a side-only stance pattern), each development subject one pattern turned to
 // its side plus seeded noise. Expected: cross-validation names joint and side, a negated vector (the
 // mirror image) keeps the joint and flips the side, a nuisance shared by two joints is discounted, and
-// stored profiles are read back or refused. Then couplingAsymmetry uses stored profiles for joint and side.
+// stored profiles are read back or refused; the evidence score is hand-computed on the two-class example
+// and grows with the size of an impairment pattern. Then couplingAsymmetry uses stored profiles for joint,
+// side and score.
 import { describe, expect, it } from 'vitest';
 import { coupleNames, coupleVector, couplingAsymmetry, couplingNorms } from '../../src/analysis/coupling-asymmetry.js';
 import type { TakeFactors } from '../../src/analysis/factors.js';
@@ -19,6 +21,12 @@ function pattern(j: number): Float64Array {
   const v = new Float64Array(L).fill(1);
   v[2 * j] = 4; v[2 * j + 1] = 4;
   return v;
+}
+
+/** Control vectors: noise only, no pattern. */
+function controlVectors(seed: number, count: number, noise: number): Float64Array[] {
+  const rng = new Pcg32(seed, 9);
+  return Array.from({ length: count }, () => Float64Array.from({ length: L }, () => noise * rng.gauss()));
 }
 
 /** Development subjects: each joint's pattern (and the hip's edited one, and a side-only stance pattern) on alternating sides, plus noise and a shared nuisance. */
@@ -52,9 +60,18 @@ describe('shrinkage discriminant', () => {
     expect(classes[1]!.weights[0]).toBeCloseTo(-4 / 3, 12);
     expect(classes[1]!.weights[1]).toBeCloseTo(8 / 3, 12);
     expect(() => fitDiscriminant(two, 2, 0)).toThrow(/shrinkage/);
+    // Evidence: the best |w·z| − bias of any class. z = (2, 0): hip 16/3 − 8/3 = 8/3, knee |−8/3| − 8/3 = 0,
+    // so 8/3 on the left; z = (0, −2): knee |−16/3| − 8/3 = 8/3 on the right; z = 0: −8/3 (no class fits).
+    const hand = { method: 'shrinkage-discriminant' as const, staticDims: 1, couples: ['a→b', 'c→d'], classes, shrinkage: 0.5, subjects: { hip: 2, knee: 2, ankle: 0, 'shoulder/arm': 0 }, sideOnlySubjects: 0, cv: [], controls: { subjects: 3, evidenceP50: 0, evidenceP90: 0 } };
+    expect(attributeByProfiles([2, 0], hand)).toMatchObject({ side: 'left', joint: 'hip' });
+    expect(attributeByProfiles([2, 0], hand).evidence).toBeCloseTo(8 / 3, 12);
+    expect(attributeByProfiles([0, -2], hand)).toMatchObject({ side: 'right', joint: 'knee' });
+    expect(attributeByProfiles([0, -2], hand).evidence).toBeCloseTo(8 / 3, 12);
+    expect(attributeByProfiles([0, 0], hand).evidence).toBeCloseTo(-8 / 3, 12);
   });
 
-  const fitted = fitJointProfiles(samples(1, 6, 0.3), couples, S);
+  const controls = controlVectors(7, 20, 0.3);
+  const fitted = fitJointProfiles(samples(1, 6, 0.3), controls, couples, S);
 
   it('fits one class per joint and source (side-only kinds without a joint), chosen by cross-validation', () => {
     expect(fitted.classes.map((c) => `${c.joint}/${c.source}`)).toEqual(['null/stance', 'ankle/walker', 'hip/edited', 'hip/walker', 'knee/walker', 'shoulder/arm/walker']);
@@ -64,6 +81,16 @@ describe('shrinkage discriminant', () => {
     const best = fitted.cv.find((r) => r.shrinkage === fitted.shrinkage)!;
     expect(best.joint).toBe(1);
     expect(best.side).toBe(1);
+  });
+
+  it('stores the controls\' evidence percentiles, which a patterned take exceeds and a larger pattern exceeds more', () => {
+    const ev = controls.map((z) => attributeByProfiles(z, fitted).evidence).sort((a, b) => a - b);
+    expect(fitted.controls).toEqual({ subjects: 20, evidenceP50: ev[Math.round(0.5 * 19)], evidenceP90: ev[Math.round(0.9 * 19)] });
+    const half = attributeByProfiles(Float64Array.from(pattern(1), (x) => 0.5 * x), fitted).evidence;
+    const full = attributeByProfiles(pattern(1), fitted).evidence;
+    expect(half).toBeGreaterThan(fitted.controls.evidenceP90);
+    expect(full).toBeGreaterThan(half);
+    expect(() => fitJointProfiles(samples(1, 6, 0.3), controls.slice(0, 2), couples, S)).toThrow(/three control/);
   });
 
   it('names a new subject, and its mirror image (the negated vector) on the other side at the same joint', () => {
@@ -83,19 +110,22 @@ describe('shrinkage discriminant', () => {
     // confuses them; the cross-validated shrinkage learns its direction and discounts it.
     const noisy = samples(3, 12, 0.2, 3), test = samples(4, 12, 0.2, 3).filter((s) => s.joint === 'hip' || s.joint === 'knee');
     const accuracy = (p: ReturnType<typeof fitJointProfiles>) => test.filter((s) => attributeByProfiles(s.z, p).joint === s.joint).length / test.length;
-    const learned = fitJointProfiles(noisy, couples, S), plain = fitJointProfiles(noisy, couples, S, { shrinkages: [1] });
+    const learned = fitJointProfiles(noisy, controls, couples, S), plain = fitJointProfiles(noisy, controls, couples, S, { shrinkages: [1] });
     expect(accuracy(learned)).toBeGreaterThan(0.9);
     expect(accuracy(learned)).toBeGreaterThan(accuracy(plain) + 0.1);
   });
 
   it('refuses development data without every joint, and stored profiles of another shape or kind', () => {
-    expect(() => fitJointProfiles(samples(2, 4, 0.1).filter((s) => s.joint !== 'knee'), couples, S)).toThrow(/knee/);
+    expect(() => fitJointProfiles(samples(2, 4, 0.1).filter((s) => s.joint !== 'knee'), controls, couples, S)).toThrow(/knee/);
     const extras = JSON.parse(JSON.stringify({ [JOINT_PROFILES_KEY]: fitted })) as Record<string, unknown>;
     expect(storedJointProfiles(extras, couples, S)?.shrinkage).toBe(fitted.shrinkage);
     expect(storedJointProfiles({}, couples, S)).toBeNull();
     expect(() => storedJointProfiles(extras, couples, 3)).toThrow(/do not fit/);
     expect(() => storedJointProfiles(extras, [...couples].reverse(), S)).toThrow(/do not fit/);
     expect(() => storedJointProfiles({ [JOINT_PROFILES_KEY]: { prototypes: [] } }, couples, S)).toThrow(/older kind/);
+    // A discriminant stored before the controls' evidence percentiles is refused the same way.
+    const { controls: _, ...withoutControls } = fitted;
+    expect(() => storedJointProfiles({ [JOINT_PROFILES_KEY]: withoutControls }, couples, S)).toThrow(/older kind/);
   });
 });
 
@@ -127,7 +157,8 @@ describe('coupling asymmetry with stored profiles', () => {
       dev.push({ joint, source: 'walker', side, z: coupleVector(factors(300 + 10 * j + k, (p) => (p === target ? 0.5 : 0)), norms) });
     }
   });
-  const profiles = fitJointProfiles(dev, names, SD);
+  const devControls = Array.from({ length: 6 }, (_, i) => coupleVector(factors(400 + i, () => 0), norms));
+  const profiles = fitJointProfiles(dev, devControls, names, SD);
 
   it('names joint and side by the profiles, and says so', () => {
     const target = DEFAULT_PAIRS.mirror[couplesIdx[20]!]!;
@@ -135,6 +166,17 @@ describe('coupling asymmetry with stored profiles', () => {
     expect(a.attribution).toBe('profiles');
     expect(a.joint).toBe('ankle');
     expect(a.side).toBe('right');
-    expect(couplingAsymmetry(factors(999, () => 0), norms, { replicates: 10 }).attribution).toBe('carried nodes');
+    // The take score is the discriminant's evidence on the take's couple vector, against the profiles' controls.
+    const f = factors(999, (p) => (p === target ? 0.5 : 0));
+    expect(a.scoreKind).toBe('discriminant evidence');
+    expect(a.score).toBeCloseTo(attributeByProfiles(coupleVector(f, norms), profiles).evidence, 12);
+    expect(a.controlP90).toBe(profiles.controls.evidenceP90);
+    expect(a.score).toBeGreaterThan(a.controlP90);
+    expect(a.ciLow).toBeLessThanOrEqual(a.ciHigh);
+    const plain = couplingAsymmetry(factors(999, () => 0), norms, { replicates: 10 });
+    expect(plain.attribution).toBe('carried nodes');
+    expect(plain.scoreKind).toBe('pair distance');
+    expect(plain.score).toBe(plain.distance);
+    expect(plain.controlP90).toBe(norms.controlScoreP90);
   });
 });

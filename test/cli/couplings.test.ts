@@ -36,6 +36,11 @@ describe('jointloom couplings', () => {
     }
     expect(a.ranked[0].score).toBeGreaterThanOrEqual(a.ranked[1].score);
     expect(a.summary).toMatch(/Coupling asymmetry/);
+    // The shipped model holds a joint discriminant, so the take score is its evidence, with the controls' percentiles beside it.
+    expect(a.score_kind).toBe('discriminant evidence');
+    expect(a.ci_low).toBeLessThanOrEqual(a.ci_high);
+    expect(a.control_p50).toBeLessThan(a.control_p90);
+    expect(a.distance).toBeGreaterThan(0);
     expect(j.dynamic_over_cycle.bins).toBe(20);
     expect(j.caution).toMatch(/not a diagnostic device/);
   });

@@ -3,7 +3,7 @@
 // joint-profile development cohort holds the joint-range kinds in both arms and the side-only kinds by
 // the walker, on both sides, with ids of its own.
 import { describe, expect, it } from 'vitest';
-import { asymmetryCohort, heldOutCohort, JOINT_RANGE_KINDS, jointProfileCohort, normativeCohort, SIDE_ONLY_KINDS, trainingCohort } from '../../src/synth/cohort.js';
+import { asymmetryCohort, heldOutCohort, JOINT_RANGE_KINDS, jointOfKind, jointProfileCohort, jointProfileControls, normativeCohort, SIDE_ONLY_KINDS, trainingCohort } from '../../src/synth/cohort.js';
 
 describe('cohorts', () => {
   const seeds = {
@@ -12,6 +12,7 @@ describe('cohorts', () => {
     heldOut: heldOutCohort().map((s) => s.options.seed),
     validation: asymmetryCohort().map((s) => s.options.seed),
     development: jointProfileCohort().map((s) => s.options.seed),
+    developmentControls: jointProfileControls().map((s) => s.options.seed),
   };
 
   it('never share a walker seed', () => {
@@ -33,6 +34,14 @@ describe('cohorts', () => {
     expect(new Set(dev.filter((s) => s.arm === 'edit').map((s) => s.kind))).toEqual(new Set(['hip', 'knee', 'ankle', 'shoulder']));
     expect(dev.some((s) => s.side === 'left') && dev.some((s) => s.side === 'right')).toBe(true);
     expect(dev.every((s) => s.arm !== 'control' && s.id.startsWith('D'))).toBe(true);
+    const controls = jointProfileControls();
+    expect(controls).toHaveLength(48);
+    expect(controls.every((s) => s.arm === 'control' && s.kind === null && s.id.startsWith('DC'))).toBe(true);
+    expect(new Set([...dev, ...controls].map((s) => s.id)).size).toBe(288);
+  });
+
+  it('maps each impairment kind to the joint it narrows (arm swing and the edited shoulder to the shoulder/arm)', () => {
+    expect(['hip', 'knee', 'ankle', 'arm', 'shoulder', 'stance', 'step', null].map(jointOfKind)).toEqual(['hip', 'knee', 'ankle', 'shoulder/arm', 'shoulder/arm', null, null, null]);
   });
 
   it('keeps the validation cohort as before (ids and seeds of its first and last subjects)', () => {
