@@ -50,12 +50,12 @@ for (const t of takes) {
 const rows = parseCsv(readFileSync(batch.report.csv, 'utf8'));
 const head = rows[0], col = (r, name) => r[head.indexOf(name)];
 const num = (v, d) => (v === '' || v === undefined ? '–' : Number(v).toFixed(d));
-console.log('\ntake                   forecast 1 s mm (stride mean)  irregular  coupling asymmetry [95 %]  side   controls p90');
+console.log('\ntake                   forecast 1 s mm (stride mean)  irregular  coupling asymmetry [95 %]      side   controls p90');
 for (const r of rows.slice(1).sort((a, b) => col(a, 'take').localeCompare(col(b, 'take')))) {
   const side = col(r, 'coupling.side_right') === '' ? '–' : col(r, 'coupling.side_right') === '1' ? 'right' : 'left';
   console.log(
     `${col(r, 'take').padEnd(22)} ${num(col(r, 'forecast.mpjpe_1s_mm'), 1).padStart(6)} (${num(col(r, 'forecast.stride_mean_1s_mm'), 1)})`.padEnd(54) +
-      `${num(col(r, 'forecast.irregular_steps'), 0).padStart(5)}      ${num(col(r, 'coupling.asymmetry_score'), 2).padStart(5)} [${num(col(r, 'coupling.asymmetry_ci_low'), 2)}-${num(col(r, 'coupling.asymmetry_ci_high'), 2)}]`.padEnd(38) +
+      `${num(col(r, 'forecast.irregular_steps'), 0).padStart(5)}      ${num(col(r, 'coupling.asymmetry_score'), 2).padStart(5)} [${num(col(r, 'coupling.asymmetry_ci_low'), 2)} to ${num(col(r, 'coupling.asymmetry_ci_high'), 2)}]`.padEnd(42) +
       `${side.padEnd(6)} ${num(col(r, 'coupling.control_p90'), 2)}`,
   );
 }

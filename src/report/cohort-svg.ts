@@ -1,10 +1,13 @@
-// A small histogram for the cohort report: counts of values in equal bins, as inline SVG.
+// A small histogram for the cohort report: counts of values in equal bins, as inline SVG. Values far
+// outside the rest (beyond three interquartile ranges from the quartiles, with at least four values)
+// are left off the axis and named in a note, so one extreme take does not squash every other bar.
 import { escapeXml, niceTicks } from './svg.js';
 
 /** Returns an SVG histogram of `values` (non-finite ones are left out) with about `bins` bins. */
 export function histogramSvg(title: string, xLabel: string, values: readonly number[], bins = 10, colour = '#3b6ea8'): string {
   const W = 440, H = 240, m = { l: 44, r: 12, t: 28, b: 48 };
-  const xs = values.filter((v) => Number.isFinite(v));
+  const finite = values.filter((v) => Number.isFinite(v));
+  const { inside: xs, outside } = splitFarValues(finite);
   const ticks = niceTicks(xs.length ? Math.min(...xs) : 0, xs.length ? Math.max(...xs) : 1, bins);
   const lo = ticks[0]!, hi = ticks[ticks.length - 1]!;
   const nb = Math.max(1, ticks.length - 1);
@@ -19,10 +22,25 @@ export function histogramSvg(title: string, xLabel: string, values: readonly num
   }).join('');
   const xt = ticks.map((t) => `<text class="tick" x="${X(t).toFixed(1)}" y="${H - m.b + 16}" text-anchor="middle">${escapeXml(String(+t.toFixed(3)))}</text>`).join('');
   const yt = [0, top].map((c) => `<text class="tick" x="${m.l - 6}" y="${(Y(c) + 4).toFixed(1)}" text-anchor="end">${c}</text>`).join('');
-  return `<svg class="plot" viewBox="0 0 ${W} ${H}" role="img" aria-label="${escapeXml(title)}"><text class="plot-title" x="${m.l}" y="18">${escapeXml(title)}</text>` +
+  const fmt = (v: number) => String(+v.toFixed(2));
+  const note = outside.length
+    ? `<text class="tick" x="${W - m.r}" y="${m.t + 14}" text-anchor="end">${escapeXml(`${outside.length} off the axis: ${outside.slice(0, 3).map(fmt).join(', ')}${outside.length > 3 ? ', …' : ''}`)}</text>`
+    : '';
+  return `<svg class="plot" viewBox="0 0 ${W} ${H}" role="img" aria-label="${escapeXml(title)}"><text class="plot-title" x="${m.l}" y="18">${escapeXml(title)}</text>` + note +
     `<rect class="frame" x="${m.l}" y="${m.t}" width="${W - m.l - m.r}" height="${H - m.t - m.b}"/>${bars}${xt}${yt}` +
     `<text class="axis-label" x="${(m.l + W - m.r) / 2}" y="${H - 10}" text-anchor="middle">${escapeXml(xLabel)}</text>` +
     `<text class="axis-label" x="12" y="${(m.t + H - m.b) / 2}" transform="rotate(-90 12 ${(m.t + H - m.b) / 2})" text-anchor="middle">takes</text></svg>`;
+}
+
+/** Returns the values within three interquartile ranges of the quartiles, and the others (sorted); fewer than four values are all inside. */
+export function splitFarValues(xs: readonly number[]): { inside: number[]; outside: number[] } {
+  if (xs.length < 4) return { inside: [...xs], outside: [] };
+  const s = [...xs].sort((a, b) => a - b);
+  // Quartiles by linear interpolation between order statistics (common practice; R's default type 7).
+  const q = (p: number) => { const h = (s.length - 1) * p, i = Math.floor(h); return s[i]! + (h - i) * ((s[Math.min(s.length - 1, i + 1)] ?? s[i]!) - s[i]!); };
+  const q1 = q(0.25), q3 = q(0.75), iqr = q3 - q1;
+  const lo = q1 - 3 * iqr, hi = q3 + 3 * iqr;
+  return { inside: xs.filter((v) => v >= lo && v <= hi), outside: s.filter((v) => v < lo || v > hi) };
 }
 
 /** One subject's line in a trend plot: a value per session ordinal (NaN where missing). */
