@@ -1,7 +1,8 @@
 // Fits the joint attribution's discriminant (src/analysis/joint-profiles.ts) of a model file on the
 // development cohort (src/synth/cohort.ts jointProfileCohort: invented walkers of seeds 60000+, 62000+
-// and 65000+; its controls of seeds 68000+ give the evidence percentiles only; joint-range impairments made by the walker and narrowed afterwards, shorter stance and
-// step by the walker; disjoint from the validation cohort of eval:asymmetry) and stores it among the
+// and 65000+, joint-range impairments made by the walker and narrowed afterwards, shorter stance and
+// step by the walker; jointProfileControls, seeds 68000+, give only the evidence percentiles; all
+// disjoint from the validation cohort of eval:asymmetry) and stores it among the
 // file's extras (weights untouched). Prints the cross-validated joint and side accuracy on the
 // development subjects for every shrinkage tried beside the carried-node rule's on the same subjects.
 //

@@ -208,8 +208,8 @@ export function couplingAsymmetry(f: TakeFactors, norms: CouplingNorms, options:
   // Bootstrap over blocks of windows (about a stride each at the default 0.5 s spacing).
   const block = Math.max(1, options.blockWindows ?? 2), blocks = Math.ceil(n / block);
   const R = options.replicates ?? 200, rng = new Pcg32(options.seed ?? 1, 0x626f6f74);
+  // bootTake: the take score's replicates (the discriminant's evidence with profiles, else the pair distance).
   const boot = couples.map(() => new Float64Array(R)), bootTake = new Float64Array(R);
-  const learnedBoot = options.profiles ? new Float64Array(R) : null;
   const pick: number[] = [], buf = new Float64Array(f.pairs * S);
   for (let r = 0; r < R; r++) {
     pick.length = 0;
@@ -219,8 +219,7 @@ export function couplingAsymmetry(f: TakeFactors, norms: CouplingNorms, options:
     }
     meanOfWindows(f, pick, buf);
     const rs = couples.map((p, k) => (boot[k]![r] = coupleScore(buf, p, S, norms)));
-    bootTake[r] = takeScore(rs);
-    if (learnedBoot) learnedBoot[r] = attributeByProfiles(coupleVectorOf(buf, S, norms), options.profiles!).evidence;
+    bootTake[r] = options.profiles ? attributeByProfiles(coupleVectorOf(buf, S, norms), options.profiles).evidence : takeScore(rs);
   }
   const q = (xs: Float64Array, p: number) => { const s = Float64Array.from(xs).sort(); return s[Math.min(s.length - 1, Math.max(0, Math.round(p * (s.length - 1))))]!; };
   // Node deviation: the mean distance from the cohort of the pairs a node belongs to (both orders).
@@ -269,7 +268,7 @@ export function couplingAsymmetry(f: TakeFactors, norms: CouplingNorms, options:
   const distance = takeScore(scores);
   const scoreKind = learned ? 'discriminant evidence' : 'pair distance';
   const score = learned ? learned.evidence : distance;
-  const takeBoot = learnedBoot ?? bootTake, ciLow = q(takeBoot, 0.025), ciHigh = q(takeBoot, 0.975);
+  const ciLow = q(bootTake, 0.025), ciHigh = q(bootTake, 0.975);
   const controlP50 = learned ? options.profiles!.controls.evidenceP50 : norms.controlScoreP50;
   const controlP90 = learned ? options.profiles!.controls.evidenceP90 : norms.controlScoreP90;
   const top = ranked[0]!;

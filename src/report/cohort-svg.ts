@@ -1,6 +1,7 @@
 // A small histogram for the cohort report: counts of values in equal bins, as inline SVG. Values far
 // outside the rest (beyond three interquartile ranges from the quartiles, with at least four values)
 // are left off the axis and named in a note, so one extreme take does not squash every other bar.
+import { quantile } from '../norms/profile.js';
 import { escapeXml, niceTicks } from './svg.js';
 
 /** Returns an SVG histogram of `values` (non-finite ones are left out) with about `bins` bins. */
@@ -32,15 +33,12 @@ export function histogramSvg(title: string, xLabel: string, values: readonly num
     `<text class="axis-label" x="12" y="${(m.t + H - m.b) / 2}" transform="rotate(-90 12 ${(m.t + H - m.b) / 2})" text-anchor="middle">takes</text></svg>`;
 }
 
-/** Returns the values within three interquartile ranges of the quartiles, and the others (sorted); fewer than four values are all inside. */
+/** Returns the values within three interquartile ranges of the quartiles (type-7 quantiles), and the others (sorted); fewer than four values are all inside. */
 export function splitFarValues(xs: readonly number[]): { inside: number[]; outside: number[] } {
   if (xs.length < 4) return { inside: [...xs], outside: [] };
-  const s = [...xs].sort((a, b) => a - b);
-  // Quartiles by linear interpolation between order statistics (common practice; R's default type 7).
-  const q = (p: number) => { const h = (s.length - 1) * p, i = Math.floor(h); return s[i]! + (h - i) * ((s[Math.min(s.length - 1, i + 1)] ?? s[i]!) - s[i]!); };
-  const q1 = q(0.25), q3 = q(0.75), iqr = q3 - q1;
+  const q1 = quantile(xs, 0.25), q3 = quantile(xs, 0.75), iqr = q3 - q1;
   const lo = q1 - 3 * iqr, hi = q3 + 3 * iqr;
-  return { inside: xs.filter((v) => v >= lo && v <= hi), outside: s.filter((v) => v < lo || v > hi) };
+  return { inside: xs.filter((v) => v >= lo && v <= hi), outside: xs.filter((v) => v < lo || v > hi).sort((a, b) => a - b) };
 }
 
 /** One subject's line in a trend plot: a value per session ordinal (NaN where missing). */
