@@ -37,6 +37,8 @@ export interface ModelConfig {
   rolloutWeight: number;
   /** Weight β of the KL terms. */
   beta: number;
+  /** Weight of the static factors' KL term (β unless given). */
+  staticBeta: number;
   /** Model rate, steps per second (the windows' rate). */
   rate: number;
   /**
@@ -103,6 +105,7 @@ export function defaultModelConfig(): ModelConfig {
     reconSteps: 30,
     rolloutWeight: 1,
     beta: 1,
+    staticBeta: 1,
     rate: 30,
     kinematic: true,
     stridePrior: true,
@@ -127,6 +130,8 @@ export function resolveModelConfig(partial: Partial<ModelConfig> = {}): ModelCon
   if (partial.stridePrior !== undefined && partial.residualScale === undefined) legacy.residualScale = 1;
   // And one without priorRegistration took whole periods back.
   if (partial.stridePrior !== undefined && partial.priorRegistration === undefined) legacy.priorRegistration = false;
+  // One without a static weight weighed every KL term by β.
+  if (partial.staticBeta === undefined) legacy.staticBeta = partial.beta ?? defaultModelConfig().beta;
   const c: ModelConfig = { ...defaultModelConfig(), ...legacy, ...partial };
   const ints: (keyof ModelConfig)[] = ['nodes', 'observe', 'forecast', 'hidden', 'pairHidden', 'staticDims', 'dynamicDims', 'dynamicStride', 'messageHidden', 'updateHidden', 'reconSteps', 'priorHistory'];
   for (const k of ints) {
@@ -139,7 +144,7 @@ export function resolveModelConfig(partial: Partial<ModelConfig> = {}): ModelCon
   if (c.reconSteps > c.observe - 1) throw new RangeError(`reconSteps (${c.reconSteps}) must be at most observe − 1 (${c.observe - 1})`);
   if (c.restrictedLabeling && c.dynamicDims < 2) throw new RangeError('restricted labeling needs at least 2 dynamic dimensions');
   if (!(c.residualScale > 0) || !Number.isFinite(c.residualScale)) throw new RangeError('model config residualScale must be a positive number');
-  for (const k of ['rolloutWeight', 'beta', 'labelWeight', 'noiseFloor'] as const)
+  for (const k of ['rolloutWeight', 'beta', 'staticBeta', 'labelWeight', 'noiseFloor'] as const)
     if (!(c[k] >= 0) || !Number.isFinite(c[k])) throw new RangeError(`model config ${k} must be a finite number ≥ 0`);
   if (!(c.rate > 0) || !Number.isFinite(c.rate)) throw new RangeError('model config rate must be a positive number of steps per second');
   for (const k of ['kinematic', 'stridePrior', 'priorRegistration', 'noCoupling', 'matchPairing', 'restrictedLabeling'] as const)

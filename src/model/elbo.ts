@@ -1,5 +1,5 @@
 // The training objective: the negative evidence lower bound of a batch, per window,
-//   loss = recon + rolloutWeight · rollout + β · (KL static + KL dynamic) + labelWeight · label
+//   loss = recon + rolloutWeight · rollout + β_s · KL static + β · KL dynamic + labelWeight · label
 // recon    one-step teacher-forced Gaussian NLL of the last `reconSteps` observed transitions (learned
 //          per-feature noise);
 // rollout  Gaussian NLL of the forecast steps decoded from the last observed state with the decoder's own
@@ -79,7 +79,7 @@ export function elboForward(model: CouplingModel, ws: Workspace, batch: Batch, r
   }
   klD *= inv;
   const label = coupled && c.restrictedLabeling ? labelLoss(model, ws, batch, null) * inv : 0;
-  const total = recon + c.rolloutWeight * rollout + c.beta * (klS + klD) + c.labelWeight * label;
+  const total = recon + c.rolloutWeight * rollout + c.staticBeta * klS + c.beta * klD + c.labelWeight * label;
   return {
     total, recon, rollout, klStatic: klS, klDynamic: klD, label,
     klStaticPerDim: Array.from(ws.perDimStatic, (v) => v * inv),
@@ -142,7 +142,7 @@ export function elboBackward(model: CouplingModel, ws: Workspace, batch: Batch):
   const kb = c.beta * inv, blk = BP * D;
   ws.dmuSg.fill(0, 0, BP * S);
   ws.dlvSg.fill(0, 0, BP * S);
-  klStdNormalBackward(ws.muSg, ws.lvSg, BP * S, kb, ws.dmuSg, ws.dlvSg);
+  klStdNormalBackward(ws.muSg, ws.lvSg, BP * S, c.staticBeta * inv, ws.dmuSg, ws.dlvSg);
   ws.dmuD.fill(0, 0, K * blk);
   ws.dlvD.fill(0, 0, K * blk);
   ws.dmuP.fill(0, 0, K * blk);

@@ -63,6 +63,25 @@ describe('ELBO gradient', () => {
     for (const n of ['enc.gru.wx', 'dec.msg.wz', 'dec.up.w1x', 'dec.up.w2', 'dec.up.b2', 'noise.rollout']) expect(names).toContain(n);
   });
 
+  it('matches finite differences with the static KL weighed apart from the dynamic KL', () => {
+    const { worst, names } = check({ beta: 0.7, staticBeta: 0.2 }, [0, 0, 1]);
+    expect(worst).toBeLessThan(1e-5);
+    for (const n of ['enc.static.wa', 'enc.static.wMu', 'enc.static.wLv', 'enc.dynamic.wLv']) expect(names).toContain(n);
+  });
+
+  it('adds the static KL at its own weight, which a stored configuration without one takes from β', () => {
+    expect(resolveModelConfig({ ...TINY, beta: 0.4 }).staticBeta).toBe(0.4);
+    expect(resolveModelConfig({ ...TINY, beta: 0.4, staticBeta: 0.1 }).staticBeta).toBe(0.1);
+    expect(() => resolveModelConfig({ ...TINY, staticBeta: -1 })).toThrow(/staticBeta/);
+    const c = resolveModelConfig({ ...TINY, beta: 0.7, staticBeta: 0.2 });
+    const model = createModel(c, identityStats(c.nodes), { seed: 3, precision: 64 });
+    const batch = randomBatch(c, 3, model.store.valueView(), 5, [0, 0, 1]);
+    const r = elboForward(model, createWorkspace(model, 3), batch, new Pcg32(9, 2));
+    expect(r.klStatic).toBeGreaterThan(0);
+    // The loss as the objective's definition writes it (elbo.ts), term by term.
+    expect(r.total).toBeCloseTo(r.recon + c.rolloutWeight * r.rollout + 0.2 * r.klStatic + 0.7 * r.klDynamic + c.labelWeight * r.label, 10);
+  });
+
   it('matches finite differences without match pairing and labeling', () => {
     expect(check({ matchPairing: false, restrictedLabeling: false }, [0, 0]).worst).toBeLessThan(1e-5);
   });
