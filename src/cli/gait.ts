@@ -11,7 +11,7 @@ import { scoreAgainstNorms } from '../norms/score.js';
 import { importTake } from '../skeleton/import.js';
 import { gaitReportHtml, type GaitReportData } from '../report/gait-html.js';
 import { gaitText, stridesCsv } from '../report/gait-text.js';
-import { writeFileAtomic } from '../util/atomic.js';
+import { writeFilesAtomic, type FileToWrite } from '../util/atomic.js';
 import { CAUTION } from './caution.js';
 import { VERSION, emit, newCommand } from './program.js';
 import { importOptionsFrom, withImportOptions, type ImportFlags } from './import-options.js';
@@ -70,9 +70,12 @@ export function register(program: Command): void {
         result.norms = scoreAgainstNorms(analysis, readNormsFile(file), shown.startsWith('..') ? file : shown);
       }
     }
-    if (flags.eventsOut) writeFileAtomic(flags.eventsOut, writeEvents(analysis.detection.events, fps, eventsFormatOf(flags.eventsOut)));
-    if (flags.csv) writeFileAtomic(flags.csv, stridesCsv(result));
-    if (flags.html) writeFileAtomic(flags.html, gaitReportHtml(result, ANGLE_LABELS, CAUTION));
+    // All or none: a bad --html folder must not leave the events and CSV written.
+    const files: FileToWrite[] = [];
+    if (flags.eventsOut) files.push({ path: flags.eventsOut, data: writeEvents(analysis.detection.events, fps, eventsFormatOf(flags.eventsOut)) });
+    if (flags.csv) files.push({ path: flags.csv, data: stridesCsv(result) });
+    if (flags.html) files.push({ path: flags.html, data: gaitReportHtml(result, ANGLE_LABELS, CAUTION) });
+    writeFilesAtomic(files);
     emit(flags.json ? JSON.stringify(result) : gaitText(result));
   });
   program.addCommand(cmd);

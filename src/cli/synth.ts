@@ -1,7 +1,7 @@
 // `jointloom synth`: a synthetic walking take with its ground-truth sidecar.
 import type { Command } from 'commander';
 import { SYNTH_FLAGS, synthesizeTake, synthOptionsFromFlags } from '../synth/index.js';
-import { writeFileAtomic } from '../util/atomic.js';
+import { writeFilesAtomic, type FileToWrite } from '../util/atomic.js';
 import { newCommand } from './program.js';
 
 /** Flags that take no value. */
@@ -31,8 +31,9 @@ export function register(program: Command): void {
       raw[flag] = SWITCHES.has(flag) ? (v ? 'true' : undefined) : v;
     }
     const { take, truth, bvhText } = synthesizeTake(synthOptionsFromFlags(raw));
-    writeFileAtomic(String(flags.out), bvhText);
-    if (flags.truth) writeFileAtomic(String(flags.truth), JSON.stringify(truth, null, 1) + '\n');
+    const files: FileToWrite[] = [{ path: String(flags.out), data: bvhText }];
+    if (flags.truth) files.push({ path: String(flags.truth), data: JSON.stringify(truth, null, 1) + '\n' });
+    writeFilesAtomic(files);
     if (!flags.quiet) {
       const secs = take.frameCount * take.frameTime;
       process.stdout.write(`wrote ${flags.out}: ${take.frameCount} frames at ${Math.round(1 / take.frameTime)} Hz (${secs.toFixed(1)} s), ${take.joints.filter((j) => !j.endSite).length} joints${flags.truth ? `; truth in ${flags.truth}` : ''}\n`);

@@ -4,7 +4,7 @@ import { cohortCsv } from '../report/cohort-csv.js';
 import type { CohortData } from '../report/cohort-data.js';
 import { cohortHtml } from '../report/cohort-html.js';
 import { metricNames } from '../score/columns.js';
-import { writeFileAtomic } from '../util/atomic.js';
+import { writeFilesAtomic } from '../util/atomic.js';
 import type { Ledger } from './open.js';
 import { listFailures, listScores } from './query.js';
 
@@ -22,7 +22,7 @@ export function cohortData(db: Ledger, ledger: string, modelKey: string, toolVer
 
 /** Writes cohort-report.html and cohort.csv into `dir`; returns their paths. */
 export function writeCohortReport(data: CohortData, dir: string, caution: string): { html: string; csv: string } {
-  const html = writeFileAtomic(join(dir, 'cohort-report.html'), cohortHtml(data, caution));
-  const csv = writeFileAtomic(join(dir, 'cohort.csv'), cohortCsv(data.takes, data.metrics));
+  const html = join(dir, 'cohort-report.html'), csv = join(dir, 'cohort.csv');
+  writeFilesAtomic([{ path: html, data: cohortHtml(data, caution) }, { path: csv, data: cohortCsv(data.takes, data.metrics) }]);
   return { html, csv };
 }

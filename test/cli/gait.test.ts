@@ -1,7 +1,7 @@
 // The gait command as a user runs it: JSON fields, CSV and HTML outputs, reviewed events read back,
 // a non-walking take refused with one line, the shipped synthetic reference used by default (and --no-norms),
 // and the HTML report rendered in headless Chromium with its reference bands and profile chart.
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -94,6 +94,17 @@ describe('gait command', () => {
     expect(r.stderr.trim().split('\n')).toHaveLength(1);
     expect(r.stderr).toMatch(/standing\.bvh: no walking found/);
     expect(() => readFileSync(out)).toThrow();
+  });
+
+  it('an --html into a missing folder writes none of the outputs (the CSV and events file stay as they were)', async () => {
+    const csv = join(tmp, 'kept.csv'), events = join(tmp, 'kept-events.csv'), bad = join(tmp, 'no-such-folder', 'report.html');
+    writeFileSync(csv, 'earlier\n');
+    const r = await runCli(['gait', take, '--csv', csv, '--events-out', events, '--html', bad]);
+    expect(r.code).toBe(1);
+    expect(r.stderr.trim().split('\n').filter((l) => !l.includes('warning:'))).toEqual([`jointloom: ${bad}: no such file or folder`]);
+    expect(readFileSync(csv, 'utf8')).toBe('earlier\n');
+    expect(() => readFileSync(events)).toThrow();
+    expect(readdirSync(tmp).filter((f) => f.endsWith('.tmp'))).toEqual([]);
   });
 
   it('the HTML report is self-contained and renders in headless Chromium with its plots', async () => {

@@ -130,4 +130,12 @@ describe('export', () => {
     expect((await runCli(['export', tiny, '--frames', '0', '--all'])).code).toBe(2);
     expect((await runCli(['export', tiny, '--frames', 'x'])).code).toBe(2);
   });
+
+  it('an output in a missing folder is one line naming that file (not the temp file beside it), exit 1', async () => {
+    const out = join(tmp, 'no-such-folder', 'pos.json');
+    const r = await runCli(['export', tiny, '-o', out]);
+    expect(r.code).toBe(1);
+    // The tiny take's role and unit warnings come first; the error is the one line that is not a warning.
+    expect(r.stderr.trim().split('\n').filter((l) => !l.startsWith('jointloom: warning:'))).toEqual([`jointloom: ${out}: no such file or folder`]);
+  });
 });
