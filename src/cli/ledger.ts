@@ -5,6 +5,7 @@ import { checkOutputFolder } from '../ledger/batch.js';
 import { forgetSubject } from '../ledger/forget.js';
 import { TREND_METRICS, subjectHistory, type SubjectHistory } from '../ledger/history.js';
 import { mergeLedgers } from '../ledger/merge.js';
+import { InputError } from '../errors/index.js';
 import { DEFAULT_LEDGER, openLedger } from '../ledger/open.js';
 import { listScores } from '../ledger/query.js';
 import { cohortCsv } from '../report/cohort-csv.js';
@@ -65,12 +66,19 @@ export function register(program: Command): void {
     .description('write the cohort report (cohort-report.html and cohort.csv) of one model\'s scores')
     .requiredOption('--out <dir>', 'folder to write into')
     .option(...ledgerOption)
-    .option('--model <key>', 'model key (default "none")', 'none')
-    .action((f: { ledger: string; out: string; model: string }) => {
+    .option('--model <key>', 'model key (model file SHA-256, or "none"; default: the model of the latest score)')
+    .action((f: { ledger: string; out: string; model?: string }) => {
       checkOutputFolder(f.out);
       const db = openLedger(f.ledger, { mustExist: true });
       try {
-        const r = writeCohortReport(cohortData(db, f.ledger, f.model, VERSION), f.out, CAUTION);
+        const all = listScores(db, {});
+        if (!all.length) throw new InputError(`${f.ledger}: the ledger holds no scores yet; run jointloom batch first.`);
+        const key = f.model ?? [...all].sort((a, b) => a.scoredAt.localeCompare(b.scoredAt)).pop()!.modelKey;
+        if (!all.some((r) => r.modelKey === key)) {
+          const keys = [...new Set(all.map((r) => r.modelKey))].sort();
+          throw new InputError(`${f.ledger}: no scores under model ${key}; the ledger holds ${keys.join(', ')}.`);
+        }
+        const r = writeCohortReport(cohortData(db, f.ledger, key, VERSION), f.out, CAUTION);
         emit(`cohort report: ${r.html}; CSV: ${r.csv}`);
       } finally { db.close(); }
     }));

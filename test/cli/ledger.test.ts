@@ -63,14 +63,29 @@ describe('jointloom ledger', () => {
     expect(only.stdout.trim().split('\n')).toHaveLength(2);
     expect(only.stdout).toMatch(/T09,1,,future\.bvh,f00d,beef/);
   });
-  it('report writes the cohort HTML and CSV', async () => {
+  it('report writes the cohort HTML and CSV of one model\'s scores (default: the latest score\'s model); an unknown model is refused', async () => {
+    const rows = (await runCli(['ledger', 'export', '--csv', '-', '--ledger', ledger])).stdout.trim().split('\n').slice(1);
+    const batchKey = rows.find((l) => l.startsWith('T01,'))!.split(',')[5]!;
+    expect(batchKey).toMatch(/^[0-9a-f]{64}$/); // the batch scored with the shipped model, keyed by its SHA-256
     const out = join(dir, 'report');
-    const r = await runCli(['ledger', 'report', '--out', out, '--ledger', ledger]);
+    const r = await runCli(['ledger', 'report', '--out', out, '--ledger', ledger, '--model', batchKey]);
     expect(r.code, r.stderr).toBe(0);
     const html = readFileSync(join(out, 'cohort-report.html'), 'utf8');
     expect(html).toContain('Trends across sessions');
     expect(html).toContain('not a diagnostic device');
     expect(html).not.toMatch(/<script|https?:\/\//); // self-contained, no scripts or network
+    const csv = readFileSync(join(out, 'cohort.csv'), 'utf8').trim().split('\n').slice(1);
+    expect(csv.filter((l) => l.startsWith('T01,'))).toHaveLength(4);
+    // The record committed by the export test above is the latest score, under model key "beef".
+    const latest = join(dir, 'report-latest');
+    expect((await runCli(['ledger', 'report', '--out', latest, '--ledger', ledger])).code).toBe(0);
+    expect(readFileSync(join(latest, 'cohort.csv'), 'utf8').trim().split('\n').slice(1).map((l) => l.split(',')[0])).toEqual(['T09']);
+    const unknown = join(dir, 'report-unknown');
+    const bad = await runCli(['ledger', 'report', '--out', unknown, '--ledger', ledger, '--model', 'cafe']);
+    expect(bad.code).toBe(1);
+    expect(bad.stderr.trim().split('\n')).toHaveLength(1);
+    expect(bad.stderr).toMatch(/no scores under model cafe; the ledger holds .*beef/);
+    expect(existsSync(join(unknown, 'cohort-report.html'))).toBe(false);
   });
   it('forget removes the subject and says what went', async () => {
     const r = await runCli(['ledger', 'forget', 'T01', '--ledger', ledger]);
