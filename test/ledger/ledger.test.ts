@@ -1,5 +1,5 @@
 // The ledger: schema, migrations, one transaction per take, history with the MDC, forget, merge.
-import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import Database from 'better-sqlite3';
@@ -181,5 +181,24 @@ describe('merge', () => {
     expect(listFailures(m)).toMatchObject([{ path: 'm4.bvh', reason: 'broken', subject: 'M2' }]);
     m.close();
     expect(() => mergeLedgers([a, out], out)).toThrow(/also an input/);
+    // Merging b again adds nothing: its scores are there, and its failure (same last attempt) is not counted twice.
+    expect(mergeLedgers([b], out)).toEqual({ inputs: 1, scores: 0, already: 2, failures: 0 });
+    const again = openLedger(out);
+    expect(listFailures(again)).toMatchObject([{ path: 'm4.bvh', attempts: 1 }]);
+    again.close();
+  });
+
+  it('a bad later input leaves no output, no private copy, and names the input', () => {
+    const good = join(dir, 'mgood.sqlite'), newer = join(dir, 'mnewer.sqlite'), out = join(dir, 'mnever.sqlite');
+    const g = openLedger(good);
+    commitScore(g, record('n1', { a: 1 }), id('N1', '1', '2031-01-01'));
+    g.close();
+    const nw = openLedger(newer);
+    nw.pragma('user_version = 99'); // a schema this version does not know
+    nw.close();
+    const copiesBefore = readdirSync(tmpdir()).filter((f) => f.startsWith('jointloom-merge-')).length;
+    expect(() => mergeLedgers([good, newer], out)).toThrow(new RegExp(`^${newer.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}: `));
+    expect(existsSync(out)).toBe(false);
+    expect(readdirSync(tmpdir()).filter((f) => f.startsWith('jointloom-merge-')).length).toBe(copiesBefore);
   });
 });
