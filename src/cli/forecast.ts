@@ -12,6 +12,7 @@ import { twinOf } from '../model/pair-fit.js';
 import { importTake } from '../skeleton/import.js';
 import { writeFileAtomic } from '../util/atomic.js';
 import { emit, newCommand, numberOption } from './program.js';
+import { progressBar } from './progress.js';
 import { importOptionsFrom, withImportOptions, type ImportFlags } from './import-options.js';
 
 export { defaultModelPath };
@@ -23,6 +24,7 @@ interface ForecastFlags extends ImportFlags {
   samples: number;
   json?: boolean;
   csv?: string;
+  quiet?: boolean;
 }
 
 const METHODS: MethodName[] = ['model', 'no_coupling', 'stride_mean', 'last_stride', 'constant_velocity', 'zero_motion'];
@@ -82,7 +84,8 @@ export function register(program: Command): void {
     .option('--every <seconds>', 'forecast every so many seconds: a surprise timeline that flags irregular steps', numberOption(0.05, 1e4))
     .option('--samples <n>', 'forecast samples', numberOption(2, 1000, true), 20)
     .option('--json', 'machine-readable output')
-    .option('--csv <file>', 'write the predicted positions (mean and samples) as CSV');
+    .option('--csv <file>', 'write the predicted positions (mean and samples) as CSV; with --every, the surprise timeline')
+    .option('--quiet', 'no progress bar (with --every)');
   withImportOptions(cmd).action((path: string, flags: ForecastFlags) => {
     if (flags.at !== undefined && flags.every !== undefined) throw new UsageError('--at and --every exclude each other.');
     const modelPath = flags.model ?? defaultModelPath();
@@ -97,10 +100,19 @@ export function register(program: Command): void {
     if (flags.every !== undefined) {
       const step = Math.max(1, Math.round(flags.every * track.rate));
       const points: ForecastPoint[] = [];
-      for (let e = c.observe; e + c.forecast < track.steps; e += step) points.push(forecastAt(track, e, ev));
+      const ends: number[] = [];
+      for (let e = c.observe; e + c.forecast < track.steps; e += step) ends.push(e);
+      const bar = progressBar('forecast', Boolean(flags.quiet || flags.json));
+      try {
+        for (const e of ends) {
+          points.push(forecastAt(track, e, ev));
+          bar.update(points.length, ends.length, `${(e / track.rate).toFixed(1)} s`);
+        }
+      } finally { bar.stop(); }
       const flagsOut = flagSurprises(points.map((p) => p.surprise));
       const timeline = points.map((p, i) => ({ time_s: Math.round(p.time_s * 1000) / 1000, surprise: p.surprise === null ? null : Math.round(p.surprise * 1000) / 1000, mpjpe_1s_mm: p.mpjpe_mm ? r1(p.mpjpe_mm.model[2]!) : null, irregular: flagsOut[i] }));
       const irregular = timeline.filter((t) => t.irregular).map((t) => t.time_s);
+      if (flags.csv) writeFileAtomic(flags.csv, ['time_s,surprise,mpjpe_1s_mm,irregular', ...timeline.map((t) => `${t.time_s},${t.surprise ?? ''},${t.mpjpe_1s_mm ?? ''},${t.irregular ? 1 : 0}`)].join('\n') + '\n');
       if (flags.json) emit(JSON.stringify({ file: path, model: modelPath, every_s: flags.every, timeline, irregular_s: irregular }));
       else {
         const lines = [`${path}: ${points.length} forecasts every ${flags.every} s with ${modelPath}`, '  time s   surprise   1-s error mm   '];

@@ -59,12 +59,17 @@ describe('fit and forecast commands', () => {
     expect(j.predicted.nodes).toHaveLength(17);
   }, 120_000);
 
-  it('forecast --every gives a surprise timeline', async () => {
-    const r = await runCli(['forecast', join(tmp, 'P1.bvh'), '--model', model, '--every', '0.5', '--samples', '4', '--json']);
+  it('forecast --every gives a surprise timeline, and with --csv writes it as CSV row for row', async () => {
+    const csv = join(tmp, 'timeline.csv');
+    const r = await runCli(['forecast', join(tmp, 'P1.bvh'), '--model', model, '--every', '0.5', '--samples', '4', '--json', '--csv', csv]);
     expect(r.code).toBe(0);
     const j = JSON.parse(r.stdout);
     expect(j.timeline.length).toBeGreaterThanOrEqual(4);
     expect(typeof j.timeline[0].surprise).toBe('number');
+    const rows = readFileSync(csv, 'utf8').trim().split('\n');
+    expect(rows[0]).toBe('time_s,surprise,mpjpe_1s_mm,irregular');
+    expect(rows.slice(1).map((l) => Number(l.split(',')[0]))).toEqual(j.timeline.map((t: { time_s: number }) => t.time_s));
+    expect(rows.slice(1).map((l) => l.split(',')[3])).toEqual(j.timeline.map((t: { irregular: boolean }) => (t.irregular ? '1' : '0')));
   }, 120_000);
 
   it('a corrupt model file and an --at without 2 s observed are refused with one line', async () => {
