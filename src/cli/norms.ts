@@ -2,6 +2,7 @@
 // takes, and a summary of one.
 import { createHash } from 'node:crypto';
 import { readFileSync, statSync } from 'node:fs';
+import { basename } from 'node:path';
 import { findTakes } from '../util/takes.js';
 import { type Command, InvalidArgumentError } from 'commander';
 import { analyzeGait } from '../gait/analyze.js';
@@ -14,6 +15,7 @@ import { STRATUM_LABELS } from '../norms/strata.js';
 import { importTake } from '../skeleton/import.js';
 import { VERSION, emit, newCommand } from './program.js';
 import { importOptionsFrom, withImportOptions, type ImportFlags } from './import-options.js';
+import { progressBar } from './progress.js';
 
 interface BuildFlags extends ImportFlags {
   out: string;
@@ -21,6 +23,8 @@ interface BuildFlags extends ImportFlags {
   date?: string;
   synthetic?: boolean;
   description?: string;
+  json?: boolean;
+  quiet?: boolean;
 }
 
 /** Parses --date: an ISO calendar date. */
@@ -55,6 +59,12 @@ export function normsSummary(n: NormsFile, file: string): string {
   return lines.join('\n');
 }
 
+/** Returns a reference's provenance, speed strata and per-band counts (the JSON of `show` and `build`). */
+function bandsJson(n: NormsFile) {
+  const bands = Object.fromEntries(Object.entries(n.bands).map(([k, b]) => [k, { takes: b!.takes, strides: b!.strides, profile: b!.profile, deviation: b!.deviation ? { features: b!.deviation.features, strides: b!.deviation.strides } : null }]));
+  return { provenance: n.provenance, speed_strata: n.speed_strata, bands, skipped_bands: n.skipped_bands };
+}
+
 /** Registers `norms` (with `build` and `show`) on the program. */
 export function register(program: Command): void {
   const cmd = newCommand('norms').description('build a normative reference from control takes, or show one (bands for `gait --norms`)');
@@ -65,15 +75,22 @@ export function register(program: Command): void {
     .option('--speed-bands', `also build bands by dimensionless speed: ${STRATUM_LABELS.slow}, ${STRATUM_LABELS.self_selected}, ${STRATUM_LABELS.fast}`)
     .option('--date <YYYY-MM-DD>', 'date recorded in the provenance (default: today)', dateOption)
     .option('--synthetic', `mark the reference as synthetic (its scores are then labelled "${SYNTHETIC_LABEL}")`)
-    .option('--description <text>', 'free text recorded in the provenance (who the controls are; no names)');
+    .option('--description <text>', 'free text recorded in the provenance (who the controls are; no names)')
+    .option('--json', 'print the provenance, band counts and notes as JSON')
+    .option('--quiet', 'no progress bar');
   withImportOptions(build).action((inputs: string[], flags: BuildFlags) => {
     const files = expandTakes(inputs);
     const opts = importOptionsFrom(flags);
-    const controls: ControlTake[] = files.map((file) => {
-      const sha256 = createHash('sha256').update(readFileSync(file)).digest('hex');
-      const a = analyzeGait(importTake(file, opts));
-      return { sample: sampleTake(a, file), sha256 };
-    });
+    const bar = progressBar('norms', Boolean(flags.quiet || flags.json));
+    const controls: ControlTake[] = [];
+    try {
+      for (const file of files) {
+        const sha256 = createHash('sha256').update(readFileSync(file)).digest('hex');
+        const a = analyzeGait(importTake(file, opts));
+        controls.push({ sample: sampleTake(a, file), sha256 });
+        bar.update(controls.length, files.length, basename(file));
+      }
+    } finally { bar.stop(); }
     const { norms, notes } = buildNorms(controls, {
       speedBands: !!flags.speedBands,
       synthetic: !!flags.synthetic,
@@ -84,8 +101,11 @@ export function register(program: Command): void {
       analysis: { lowpass_hz: DEFAULT_LOWPASS_HZ, steady_state_only: true },
     });
     emit(normsJson(norms), flags.out);
-    for (const n of notes) process.stderr.write(`jointloom: note: ${n}\n`);
-    emit(normsSummary(norms, flags.out));
+    if (flags.json) emit(JSON.stringify({ out: flags.out, ...bandsJson(norms), notes }));
+    else {
+      for (const n of notes) process.stderr.write(`jointloom: note: ${n}\n`);
+      emit(normsSummary(norms, flags.out));
+    }
   });
   const show = newCommand('show')
     .description('summarise a reference: its takes, bands, stride counts and scores')
@@ -93,10 +113,7 @@ export function register(program: Command): void {
     .option('--json', 'print the provenance and band counts as JSON');
   show.action((file: string, flags: { json?: boolean }) => {
     const n = readNormsFile(file);
-    if (flags.json) {
-      const bands = Object.fromEntries(Object.entries(n.bands).map(([k, b]) => [k, { takes: b!.takes, strides: b!.strides, profile: b!.profile, deviation: b!.deviation ? { features: b!.deviation.features, strides: b!.deviation.strides } : null }]));
-      emit(JSON.stringify({ provenance: n.provenance, speed_strata: n.speed_strata, bands, skipped_bands: n.skipped_bands }));
-    } else emit(normsSummary(n, file));
+    emit(flags.json ? JSON.stringify(bandsJson(n)) : normsSummary(n, file));
   });
   build.exitOverride();
   show.exitOverride();

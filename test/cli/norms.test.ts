@@ -37,10 +37,17 @@ describe('norms build', () => {
     expect(r.stdout).toMatch(/2 control takes/);
   });
 
-  it('records today\'s date when none is given', async () => {
+  it('records today\'s date when none is given; --json prints what show --json prints, with the notes', async () => {
     const f = join(tmp, 'today.json');
-    expect((await runCli(['norms', 'build', folder, '-o', f])).code).toBe(0);
+    const r = await runCli(['norms', 'build', folder, '-o', f, '--json', '--speed-bands']);
+    expect(r.code, r.stderr).toBe(0);
     expect(JSON.parse(readFileSync(f, 'utf8')).provenance.date).toMatch(/^\d{4}-\d{2}-\d{2}$/);
+    const built = JSON.parse(r.stdout);
+    const shown = JSON.parse((await runCli(['norms', 'show', f, '--json'])).stdout);
+    expect(built.out).toBe(f);
+    expect({ provenance: built.provenance, bands: built.bands, skipped_bands: built.skipped_bands }).toEqual({ provenance: shown.provenance, bands: shown.bands, skipped_bands: shown.skipped_bands });
+    expect(built.notes.some((n: string) => /speed band slow left out/.test(n))).toBe(true);
+    expect(r.stderr).not.toMatch(/note:/);
   });
 
   it('refuses too few strides with one line and exit 1, writing nothing', async () => {
