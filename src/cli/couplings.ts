@@ -58,8 +58,7 @@ export function register(program: Command): void {
     .argument('<take>', 'BVH file')
     .option('--model <file>', 'coupling model file (default: the shipped model)')
     .option('--json', 'print JSON: pairs, classic, asymmetry, dynamic factors over the gait cycle')
-    .option('--html <file>', 'write the coupling report (heat matrix, gait-phase factors, classic measures, ranked asymmetry)')
-    .addHelpText('after', `\n${CAUTION}\n`);
+    .option('--html <file>', 'write the coupling report (heat matrix, gait-phase factors, classic measures, ranked asymmetry)');
   withImportOptions(cmd).action((path: string, flags: CouplingsFlags) => {
     const modelPath = flags.model ?? defaultModelPath();
     const loaded = loadModel(modelPath);
@@ -76,8 +75,9 @@ export function register(program: Command): void {
     const contacts = (side: 'left' | 'right') => gait.detection.events.filter((e) => e.side === side && e.kind === 'initial_contact').map((e) => e.time);
     const cycle = dynamicOverCycle(factors, { left: contacts('left'), right: contacts('right') });
     if (flags.html) {
-      const si = gaitResultJson(gait, { tool: 'jointloom', version: VERSION, file: path }).symmetry_index_pct as Record<string, number | null>;
-      writeFileAtomic(flags.html, couplingReportHtml({ file: path, model: modelPath, version: VERSION, factors, cycle, asymmetry: asym, classic, symmetryIndex: si }, CAUTION));
+      const g = gaitResultJson(gait, { tool: 'jointloom', version: VERSION, file: path });
+      const si = g.symmetry_index_pct as Record<string, number | null>, prep = g.preprocessing as { lowpass_hz: number | null; filter: string };
+      writeFileAtomic(flags.html, couplingReportHtml({ file: path, model: modelPath, version: VERSION, factors, cycle, asymmetry: asym, classic, symmetryIndex: si, filter: { lowpass_hz: prep.lowpass_hz, filter: prep.filter } }, CAUTION));
     }
     if (flags.json) {
       const D = factors.dynamicDims, P = factors.pairs;

@@ -26,6 +26,8 @@ export interface CouplingReportData {
   classic: ClassicCouplings;
   /** Classic symmetry indices of the gait parameters, %, by measure. */
   symmetryIndex: Record<string, number | null>;
+  /** The gait analysis's low-pass filter behind the classic measures and symmetry indices (cutoff in Hz, null when off). */
+  filter: { lowpass_hz: number | null; filter: string };
 }
 
 /** Returns the SVG heat matrix of static coupling (row: sender, column: receiver). */
@@ -114,6 +116,7 @@ export function couplingReportHtml(d: CouplingReportData, caution: string): stri
     '<h2>Symmetry indices of the gait parameters</h2>',
     htmlTable(['measure', 'symmetry index, %'], Object.entries(d.symmetryIndex).map(([k, v]) => [k.replace(/_/g, ' '), fx(v, 1)])),
     `<p class="sub">Methods: ${escapeXml(Object.values(d.classic.method).join(' · '))}</p>`,
+    `<dl class="facts"><dt>Low-pass filter</dt><dd>${d.filter.lowpass_hz === null ? 'off' : `${d.filter.lowpass_hz} Hz, ${escapeXml(d.filter.filter)}`}, on joint positions, before the gait events, joint angles, classic measures and symmetry indices; the coupling model reads the unfiltered take resampled to its rate</dd></dl>`,
   ].join('\n');
   return htmlPage({
     title: `Joint coupling: ${d.file}`,

@@ -55,8 +55,15 @@ describe('jointloom couplings', () => {
     expect(text).toContain('Gait-phase factors of');
     expect(text).toContain('Continuous relative phase, hip-knee');
     expect(text).toContain('side farther from the cohort');
+    // The filter behind the classic measures is stated, as in the gait report (6 Hz: the gait analysis's default).
+    expect(text).toMatch(/<dt>Low-pass filter<\/dt><dd>6 Hz, zero-lag fourth-order Butterworth/);
     // Self-contained: no external resource.
     expect(text).not.toMatch(/(src|href)="https?:/);
+  });
+
+  it('--help carries the caution once', async () => {
+    const r = await runCli(['couplings', '--help']);
+    expect(r.stdout.split('not a diagnostic device').length - 1).toBe(1);
   });
 
   it('refuses a corrupt model with one line naming the file', async () => {
