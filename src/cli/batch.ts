@@ -68,10 +68,10 @@ function scoreOptions(flags: BatchFlags): ScoreOptions {
 /** Registers `batch` on the program. */
 export function register(program: Command): void {
   const cmd = newCommand('batch')
-    .description('score every BVH take under the given folders into the ledger (gait parameters, symmetry, norm scores, forecast surprise timeline with irregular steps); resumable, in a worker pool')
+    .description('score every BVH take under the given folders into the ledger (gait parameters, symmetry, norm scores, forecast surprise timeline with irregular steps, coupling asymmetry); resumable, in a worker pool')
     .argument('<paths...>', 'folders (searched recursively) or BVH files')
-    .option('--model <file>', 'coupling model for the forecast surprise timeline (default: the shipped model); recorded by SHA-256 in every row')
-    .option('--no-model', 'no model-based stage (no forecast timeline)')
+    .option('--model <file>', 'coupling model for the forecast surprise timeline and the coupling asymmetry (default: the shipped model); recorded by SHA-256 in every row')
+    .option('--no-model', 'no model-based stage (no forecast timeline, no coupling asymmetry)')
     .option('--ledger <file>', 'SQLite ledger to write (created when missing)', DEFAULT_LEDGER)
     .option('--out <dir>', 'write the cohort report (cohort-report.html, cohort.csv) here; checked before any work')
     .option('--workers <n>', `worker threads (default: one per core, here ${defaultWorkers()})`, numberOption(1, 256, true))
