@@ -1,4 +1,4 @@
-// The forecast stage of scoring: the surprise timeline of a take. From every `everyS` seconds (default 1)
+// The forecast stage of scoring: the surprise timeline of a take. Every 0.2 s (`TIMELINE_EVERY_S`)
 // where the recorded future second exists, the model forecasts the next second with a few samples
 // (default 8); the take's steps whose recorded motion falls far outside the predicted spread are flagged
 // as irregular (evaluate.ts: above median + 4 MAD of the take's own timeline). Skipped without a model.
@@ -7,7 +7,7 @@ import { cachedModel, modelTrack } from './model-cache.js';
 import type { ScoreStage, StageResult } from './stages.js';
 
 /** Seconds between forecasts and samples per forecast of the batch timeline. */
-export const TIMELINE_EVERY_S = 1;
+export const TIMELINE_EVERY_S = 0.2;
 export const TIMELINE_SAMPLES = 8;
 
 const evaluators = new Map<string, Evaluator>();
@@ -28,7 +28,7 @@ const empty = (): Record<string, number | null> => Object.fromEntries(METRICS.ma
 /** The forecast stage: surprise timeline, 1-s error of the model and the stride-mean baseline, irregular steps. */
 export const FORECAST_STAGE: ScoreStage = {
   name: 'forecast',
-  version: 1,
+  version: 2,
   metrics: METRICS,
   run(ctx): StageResult {
     if (!ctx.modelFile) return { metrics: empty(), detail: { model: null } };

@@ -1,5 +1,5 @@
-// The forecast stage of scoring: with a model it writes the surprise timeline of the take (one forecast a
-// second where the recorded future second exists), the 1-s errors of the model and the stride-mean
+// The forecast stage of scoring: with a model it writes the surprise timeline of the take (one forecast
+// every 0.2 s where the recorded future second exists), the 1-s errors of the model and the stride-mean
 // baseline and the irregular steps; without a model it writes nulls and does not mark the model used.
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -28,15 +28,17 @@ describe('forecast stage', () => {
   it('writes the timeline, errors and irregular steps with a model', () => {
     const r = scoreTake(bytes, 'stumble.bvh', { ...base, model: { file: modelPath, file_sha256: 'x', used: false } }, [GAIT_STAGE, FORECAST_STAGE]);
     const m = r.metrics;
-    // The tiny model's prior reads up to 5 s of history, so forecasts start at 5 s and run while a second
-    // of recorded future remains: 5, 6, ... 12 s (8 points).
-    expect(m['forecast.forecast_points']).toBe(8);
+    // The tiny model's prior reads up to 5 s of history, so forecasts start at 5 s and run every 0.2 s (6
+    // steps at 30 Hz) while a second of recorded future remains: 5.0, 5.2, ... 12.8 s (40 points).
+    expect(m['forecast.forecast_points']).toBe(40);
     expect(m['forecast.mpjpe_1s_mm']).toBeGreaterThan(0);
     expect(m['forecast.stride_mean_1s_mm']).toBeGreaterThan(0);
     expect(m['forecast.coverage_90']).toBeGreaterThanOrEqual(0);
     expect(m['forecast.coverage_90']).toBeLessThanOrEqual(1);
     const detail = r.detail.forecast as { timeline: { time_s: number; irregular: boolean }[] };
-    expect(detail.timeline.map((t) => t.time_s)).toEqual([5, 6, 7, 8, 9, 10, 11, 12]);
+    expect(detail.timeline.map((t) => t.time_s)).toEqual(Array.from({ length: 40 }, (_, k) => Math.round((5 + 0.2 * k) * 1000) / 1000));
+    // The stumble synthesized at 9 s is flagged within 0.5 s of it (the forecast issue's acceptance rule).
+    expect(detail.timeline.some((t) => t.irregular && Math.abs(t.time_s - 9) <= 0.5)).toBe(true);
     expect(m['forecast.irregular_steps']).toBe(detail.timeline.filter((t) => t.irregular).length);
     expect(r.flags.filter((f) => f.stage === 'forecast').length).toBe(m['forecast.irregular_steps']);
     expect(r.provenance.model.used).toBe(true);
