@@ -49,7 +49,7 @@ describe('the fuzz machinery', () => {
 
 describe('mutation fuzz, 10,000 fixed seeds', () => {
   it('every input gives a sound Take or a well-formed BvhParseError, never anything else', () => {
-    const s = runFuzz({ cases: 10_000, seed: 20240601, fileEvery: 25 });
+    const s = runFuzz({ cases: 10_000, seed: 20240601, fileEvery: 25, strictColumns: true });
     const report = s.failures.slice(0, 10).map((f) => `seed ${f.seed} [${f.recipe}]: ${f.detail} — replay: npx tsx test/fuzz/run.ts --seed ${f.seed} --cases 1`);
     expect(report).toEqual([]);
     expect(s.cases).toBe(10_000);

@@ -254,7 +254,7 @@ export interface FuzzOptions {
   seed: number;
   /** Also read every n-th case through a temp file and compare with the in-memory result (0: never). */
   fileEvery?: number;
-  /** Also require error columns >= 1 (the parser currently reports 0 or negative columns in some cases). */
+  /** Also require error columns ≥ 1 (the vitest run and the standalone runner do; off only with the runner's --loose-columns). */
   strictColumns?: boolean;
   /** Called every `progressEvery` cases. */
   onProgress?: (done: number) => void;
