@@ -4,7 +4,7 @@ import type { Command } from 'commander';
 import { existsSync } from 'node:fs';
 import { UsageError } from '../errors/index.js';
 import { trackFromImported, type Track } from '../motion/track.js';
-import { createEvaluator, flagSurprises, forecastAt, type ForecastPoint, type MethodName } from '../model/evaluate.js';
+import { createEvaluator, flagSurprises, forecastAt, irregularEpisodes, type ForecastPoint, type MethodName } from '../model/evaluate.js';
 import { HORIZONS_S } from '../model/metrics.js';
 import { defaultModelPath } from '../model/default-model.js';
 import { loadModel } from '../model/modelfile.js';
@@ -112,12 +112,13 @@ export function register(program: Command): void {
       const flagsOut = flagSurprises(points.map((p) => p.surprise));
       const timeline = points.map((p, i) => ({ time_s: Math.round(p.time_s * 1000) / 1000, surprise: p.surprise === null ? null : Math.round(p.surprise * 1000) / 1000, mpjpe_1s_mm: p.mpjpe_mm ? r1(p.mpjpe_mm.model[2]!) : null, irregular: flagsOut[i] }));
       const irregular = timeline.filter((t) => t.irregular).map((t) => t.time_s);
+      const episodes = irregularEpisodes(timeline);
       if (flags.csv) writeFileAtomic(flags.csv, ['time_s,surprise,mpjpe_1s_mm,irregular', ...timeline.map((t) => `${t.time_s},${t.surprise ?? ''},${t.mpjpe_1s_mm ?? ''},${t.irregular ? 1 : 0}`)].join('\n') + '\n');
-      if (flags.json) emit(JSON.stringify({ file: path, model: modelPath, every_s: flags.every, timeline, irregular_s: irregular }));
+      if (flags.json) emit(JSON.stringify({ file: path, model: modelPath, every_s: flags.every, timeline, irregular_s: irregular, episodes }));
       else {
         const lines = [`${path}: ${points.length} forecasts every ${flags.every} s with ${modelPath}`, '  time s   surprise   1-s error mm   '];
         for (const t of timeline) lines.push(`  ${t.time_s.toFixed(2).padStart(6)}   ${(t.surprise ?? NaN).toFixed(2).padStart(8)}   ${String(t.mpjpe_1s_mm ?? '-').padStart(12)}   ${t.irregular ? 'irregular' : ''}`);
-        lines.push(irregular.length ? `  irregular steps near ${irregular.map((t) => `${t.toFixed(2)} s`).join(', ')}` : '  no irregular step found');
+        lines.push(episodes.length ? `  irregular motion to review near ${episodes.map((e) => (e.end_s > e.start_s ? `${e.start_s.toFixed(2)}-${e.end_s.toFixed(2)} s` : `${e.start_s.toFixed(2)} s`)).join(', ')}` : '  no irregular step found');
         emit(lines.join('\n'));
       }
       return;

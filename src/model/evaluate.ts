@@ -110,3 +110,23 @@ export function flagSurprises(values: readonly (number | null)[]): boolean[] {
   const limit = med + 4 * Math.max(mad, 1e-9);
   return values.map((v) => v !== null && v > limit);
 }
+
+/** A run of flagged timeline points: first and last flagged time and the most surprising one. */
+export interface IrregularEpisode { start_s: number; end_s: number; peak_s: number; peak: number }
+
+/**
+ * Returns the flagged points of a timeline merged into episodes: a flagged point within `gapS` seconds of
+ * the previous flagged one joins its episode (one stumble lifts several neighbouring forecasts).
+ */
+export function irregularEpisodes(points: readonly { time_s: number; surprise: number | null; irregular: boolean }[], gapS = 0.5): IrregularEpisode[] {
+  const out: IrregularEpisode[] = [];
+  for (const p of points) {
+    if (!p.irregular || p.surprise === null) continue;
+    const last = out[out.length - 1];
+    if (last && p.time_s - last.end_s <= gapS + 1e-9) {
+      last.end_s = p.time_s;
+      if (p.surprise > last.peak) { last.peak = p.surprise; last.peak_s = p.time_s; }
+    } else out.push({ start_s: p.time_s, end_s: p.time_s, peak_s: p.time_s, peak: p.surprise });
+  }
+  return out;
+}

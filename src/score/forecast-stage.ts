@@ -1,8 +1,9 @@
 // The forecast stage of scoring: the surprise timeline of a take. Every 0.2 s (`TIMELINE_EVERY_S`)
 // where the recorded future second exists, the model forecasts the next second with a few samples
 // (default 8); the take's steps whose recorded motion falls far outside the predicted spread are flagged
-// as irregular (evaluate.ts: above median + 4 MAD of the take's own timeline). Skipped without a model.
-import { createEvaluator, flagSurprises, forecastAt, type Evaluator } from '../model/evaluate.js';
+// as irregular (evaluate.ts: above median + 4 MAD of the take's own timeline), and flagged points within
+// 0.5 s of each other count as one episode, one flag. Skipped without a model.
+import { createEvaluator, flagSurprises, forecastAt, irregularEpisodes, type Evaluator, type IrregularEpisode } from '../model/evaluate.js';
 import { cachedModel, modelTrack } from './model-cache.js';
 import type { ScoreStage, StageResult } from './stages.js';
 
@@ -48,18 +49,20 @@ export const FORECAST_STAGE: ScoreStage = {
       time_s: Math.round(p.time_s * 1000) / 1000, surprise: Math.round(p.surprise! * 1000) / 1000,
       mpjpe_1s_mm: Math.round(p.mpjpe_mm!.model[2]! * 10) / 10, irregular: flags[i]!,
     }));
-    const irregular = timeline.filter((t) => t.irregular);
+    const episodes = irregularEpisodes(timeline);
+    const median = surprises[Math.floor(surprises.length / 2)]!;
+    const span = (e: IrregularEpisode) => (e.end_s > e.start_s ? `${e.start_s.toFixed(1)}-${e.end_s.toFixed(1)} s` : `${e.start_s.toFixed(1)} s`);
     return {
       metrics: {
         forecast_points: points.length,
         mpjpe_1s_mm: mean(points.map((p) => p.mpjpe_mm!.model[2]!)),
         stride_mean_1s_mm: mean(points.map((p) => p.mpjpe_mm!.stride_mean[2]!)),
         coverage_90: mean(points.map((p) => p.coverage_90!)),
-        surprise_median: surprises[Math.floor(surprises.length / 2)]!,
-        irregular_steps: irregular.length,
+        surprise_median: median,
+        irregular_steps: episodes.length,
       },
-      flags: irregular.map((t) => ({ stage: 'forecast', measure: 'surprise', value: t.surprise, text: `irregular motion near ${t.time_s.toFixed(1)} s: the recorded half second after it departs from the forecast by ${t.surprise.toFixed(1)} predicted SDs on average, far more than elsewhere in the take` })),
-      detail: { model: ctx.modelFile, every_s: TIMELINE_EVERY_S, samples: TIMELINE_SAMPLES, timeline },
+      flags: episodes.map((e) => ({ stage: 'forecast', measure: 'surprise', value: Math.round(e.peak * 1000) / 1000, text: `irregular motion near ${span(e)}, to review: the recorded half second after ${e.peak_s.toFixed(1)} s departs from the forecast by ${e.peak.toFixed(2)} predicted SDs on average (the take's median ${median.toFixed(2)})` })),
+      detail: { model: ctx.modelFile, every_s: TIMELINE_EVERY_S, samples: TIMELINE_SAMPLES, timeline, episodes },
       usedModel: true,
     };
   },

@@ -9,6 +9,7 @@ import { SHIPPED_NORMS } from '../../src/cli/gait.js';
 import { scoreTake, type ScoreOptions } from '../../src/score/compose.js';
 import { FORECAST_STAGE } from '../../src/score/forecast-stage.js';
 import { GAIT_STAGE } from '../../src/score/stages.js';
+import { irregularEpisodes } from '../../src/model/evaluate.js';
 import { synthesizeTake } from '../../src/synth/index.js';
 import { writeTinyModel } from '../view/tiny-model.js';
 
@@ -39,8 +40,18 @@ describe('forecast stage', () => {
     expect(detail.timeline.map((t) => t.time_s)).toEqual(Array.from({ length: 40 }, (_, k) => Math.round((5 + 0.2 * k) * 1000) / 1000));
     // The stumble synthesized at 9 s is flagged within 0.5 s of it (the forecast issue's acceptance rule).
     expect(detail.timeline.some((t) => t.irregular && Math.abs(t.time_s - 9) <= 0.5)).toBe(true);
-    expect(m['forecast.irregular_steps']).toBe(detail.timeline.filter((t) => t.irregular).length);
-    expect(r.flags.filter((f) => f.stage === 'forecast').length).toBe(m['forecast.irregular_steps']);
+    // Flagged points within 0.5 s of each other are one episode and one flag.
+    const episodes = irregularEpisodes(detail.timeline.map((t) => ({ ...t, surprise: 1 })));
+    expect(m['forecast.irregular_steps']).toBe(episodes.length);
+    expect(m['forecast.irregular_steps']).toBeLessThanOrEqual(detail.timeline.filter((t) => t.irregular).length);
+    const flags = r.flags.filter((f) => f.stage === 'forecast');
+    expect(flags.length).toBe(m['forecast.irregular_steps']);
+    // One episode reaches to within 0.5 s of the stumble, and its flag names where to look.
+    const stored = (r.detail.forecast as { episodes: { start_s: number; end_s: number; peak_s: number }[] }).episodes;
+    expect(stored).toHaveLength(flags.length);
+    const k = stored.findIndex((e) => e.start_s - 0.5 <= 9 && 9 <= e.end_s + 0.5);
+    expect(k).toBeGreaterThanOrEqual(0);
+    expect(flags[k]!.text).toContain(`irregular motion near ${stored[k]!.start_s.toFixed(1)}`);
     expect(r.provenance.model.used).toBe(true);
   });
 
