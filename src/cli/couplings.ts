@@ -16,6 +16,7 @@ import { loadModel } from '../model/modelfile.js';
 import { DEFAULT_PAIRS, MOTION_NODES } from '../motion/roles.js';
 import { trackFromImported } from '../motion/track.js';
 import { importTake } from '../skeleton/import.js';
+import { domainWarning, modelDomainCheck } from '../model/domain.js';
 import { CAUTION } from './caution.js';
 import { VERSION, emit, newCommand } from './program.js';
 import { importOptionsFrom, withImportOptions, type ImportFlags } from './import-options.js';
@@ -67,6 +68,9 @@ export function register(program: Command): void {
     const track = trackFromImported(imported, { rate: model.config.rate });
     if (track.steps <= model.config.observe) throw new InputError(`${path}: the take is ${(track.steps / track.rate).toFixed(2)} s long; coupling factors need more than ${(model.config.observe / model.config.rate).toFixed(1)} s.`);
     const factors = takeFactors(model, track);
+    const domain = modelDomainCheck(model.config, track);
+    const outside = domain.inside ? null : domainWarning(domain, 'its coupling factors and asymmetry');
+    if (outside && !flags.json) process.stderr.write(`jointloom: warning: ${path}: ${outside}\n`);
     let norms;
     try { norms = storedCouplingNorms(loaded.extras, factors.pairs, factors.staticDims); } catch (e) { throw new InputError(`${modelPath}: ${(e as Error).message}.`); }
     const asym = norms ? couplingAsymmetry(factors, norms, { profiles: profilesOf(loaded.extras, factors.staticDims, modelPath) }) : null;
@@ -77,7 +81,7 @@ export function register(program: Command): void {
     if (flags.html) {
       const g = gaitResultJson(gait, { tool: 'jointloom', version: VERSION, file: path });
       const si = g.symmetry_index_pct as Record<string, number | null>, prep = g.preprocessing as { lowpass_hz: number | null; filter: string };
-      writeFileAtomic(flags.html, couplingReportHtml({ file: path, model: modelPath, version: VERSION, factors, cycle, asymmetry: asym, classic, symmetryIndex: si, filter: { lowpass_hz: prep.lowpass_hz, filter: prep.filter } }, CAUTION));
+      writeFileAtomic(flags.html, couplingReportHtml({ file: path, model: modelPath, version: VERSION, factors, cycle, asymmetry: asym, classic, symmetryIndex: si, filter: { lowpass_hz: prep.lowpass_hz, filter: prep.filter }, domainWarning: outside }, CAUTION));
     }
     if (flags.json) {
       const D = factors.dynamicDims, P = factors.pairs;
@@ -91,7 +95,8 @@ export function register(program: Command): void {
           pairs: Object.fromEntries(Array.from({ length: P }, (_, p) => [pairName(p), Array.from({ length: cycle.bins }, (_, b) => Array.from({ length: D }, (_, d) => r3(cycle.mean[(b * P + p) * D + d]!)))])),
         },
         caution: CAUTION,
-        warnings: [...imported.warnings, ...classic.warnings, ...(norms ? [] : [`${modelPath} holds no normative coupling figures, so no asymmetry is scored`])],
+        domain: { stride_mean_1s_mm: domain.strideMeanMm === null ? null : r3(domain.strideMeanMm), straight_walking: domain.inside },
+        warnings: [...imported.warnings, ...classic.warnings, ...(norms ? [] : [`${modelPath} holds no normative coupling figures, so no asymmetry is scored`]), ...(outside ? [`${path}: ${outside}`] : [])],
       }));
       return;
     }

@@ -9,6 +9,7 @@ import { HORIZONS_S } from '../model/metrics.js';
 import { defaultModelPath } from '../model/default-model.js';
 import { loadModel } from '../model/modelfile.js';
 import { twinOf } from '../model/pair-fit.js';
+import { domainWarning, modelDomainCheck } from '../model/domain.js';
 import { importTake } from '../skeleton/import.js';
 import { writeFileAtomic } from '../util/atomic.js';
 import { emit, newCommand, numberOption } from './program.js';
@@ -97,6 +98,9 @@ export function register(program: Command): void {
     const c = model.config;
     if (track.steps < c.observe + 1) throw new UsageError(`${path}: the take is ${(track.steps / track.rate).toFixed(2)} s long; a forecast needs at least ${((c.observe + 1) / track.rate).toFixed(2)} s observed.`);
     const ev = createEvaluator({ model, noCoupling }, flags.samples);
+    const domain = modelDomainCheck(c, track);
+    if (!domain.inside && !flags.json) process.stderr.write(`jointloom: warning: ${path}: ${domainWarning(domain, 'its forecast')}\n`);
+    const domainJson = { stride_mean_1s_mm: domain.strideMeanMm === null ? null : r1(domain.strideMeanMm), straight_walking: domain.inside };
     if (flags.every !== undefined) {
       const step = Math.max(1, Math.round(flags.every * track.rate));
       const points: ForecastPoint[] = [];
@@ -114,7 +118,7 @@ export function register(program: Command): void {
       const irregular = timeline.filter((t) => t.irregular).map((t) => t.time_s);
       const episodes = irregularEpisodes(timeline);
       if (flags.csv) writeFileAtomic(flags.csv, ['time_s,surprise,mpjpe_1s_mm,irregular', ...timeline.map((t) => `${t.time_s},${t.surprise ?? ''},${t.mpjpe_1s_mm ?? ''},${t.irregular ? 1 : 0}`)].join('\n') + '\n');
-      if (flags.json) emit(JSON.stringify({ file: path, model: modelPath, every_s: flags.every, timeline, irregular_s: irregular, episodes }));
+      if (flags.json) emit(JSON.stringify({ file: path, model: modelPath, every_s: flags.every, timeline, irregular_s: irregular, episodes, domain: domainJson }));
       else {
         const lines = [`${path}: ${points.length} forecasts every ${flags.every} s with ${modelPath}`, '  time s   surprise   1-s error mm   '];
         for (const t of timeline) lines.push(`  ${t.time_s.toFixed(2).padStart(6)}   ${(t.surprise ?? NaN).toFixed(2).padStart(8)}   ${String(t.mpjpe_1s_mm ?? '-').padStart(12)}   ${t.irregular ? 'irregular' : ''}`);
@@ -128,7 +132,7 @@ export function register(program: Command): void {
     if (end < c.observe || end >= track.steps) throw new UsageError(`${path}: --at ${at} s is outside ${(c.observe / track.rate).toFixed(2)} to ${((track.steps - 1) / track.rate).toFixed(2)} s (2 s must be observed before it).`);
     const p = forecastAt(track, end, ev);
     if (flags.csv) writeFileAtomic(flags.csv, predictedCsv(p, track));
-    if (flags.json) emit(JSON.stringify({ file: path, model: modelPath, ...pointJson(p, track, true) }));
+    if (flags.json) emit(JSON.stringify({ file: path, model: modelPath, ...pointJson(p, track, true), domain: domainJson }));
     else {
       const lines = [`${path}: forecast of 1 s from ${p.time_s.toFixed(2)} s with ${p.result.sampleCount} samples (${modelPath})`];
       if (!p.mpjpe_mm) lines.push('  the take ends before the forecast second, so there is nothing to score it against');

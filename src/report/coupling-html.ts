@@ -28,6 +28,8 @@ export interface CouplingReportData {
   symmetryIndex: Record<string, number | null>;
   /** The gait analysis's low-pass filter behind the classic measures and symmetry indices (cutoff in Hz, null when off). */
   filter: { lowpass_hz: number | null; filter: string };
+  /** Set when the take lies outside the model's straight-walking domain (src/model/domain.ts). */
+  domainWarning?: string | null;
 }
 
 /** Returns the SVG heat matrix of static coupling (row: sender, column: receiver). */
@@ -96,6 +98,7 @@ export function couplingReportHtml(d: CouplingReportData, caution: string): stri
   const topIndex = top ? Array.from({ length: f.pairs }, (_, p) => p).find((p) => `${MOTION_NODES[DEFAULT_PAIRS.sender[p]!]}→${MOTION_NODES[DEFAULT_PAIRS.receiver[p]!]}` === top.pair) ?? 0 : 0;
   const fx = (v: number | null | undefined, k = 2) => (v === null || v === undefined || !Number.isFinite(v) ? null : v.toFixed(k));
   const body = [
+    d.domainWarning ? `<p class="warn">${escapeXml(d.domainWarning.charAt(0).toUpperCase() + d.domainWarning.slice(1))}.</p>` : '',
     '<h2>Coupling asymmetry</h2>',
     a ? `<p>${escapeXml(a.summary)}</p>` : '<p class="warn">The model file holds no normative coupling figures, so no asymmetry is scored.</p>',
     a ? htmlTable(['pair', 'mirror', 'score', '95 % low', '95 % high', 'side farther from the cohort'], a.ranked.slice(0, 12).map((r) => [r.pair, r.mirror, fx(r.score), fx(r.ciLow), fx(r.ciHigh), { raw: r.side === 'midline' ? 'midline' : `<span class="side-${r.side}">${r.side}</span>` }])) : '',

@@ -4,7 +4,8 @@
 // as irregular (evaluate.ts: above median + 4 MAD of the take's own timeline), and flagged points within
 // 0.5 s of each other count as one episode, one flag. Skipped without a model.
 import { createEvaluator, flagSurprises, forecastAt, irregularEpisodes, type Evaluator, type IrregularEpisode } from '../model/evaluate.js';
-import { cachedModel, modelTrack } from './model-cache.js';
+import { domainWarning, firstForecastStep } from '../model/domain.js';
+import { cachedModel, modelTrack, takeDomain } from './model-cache.js';
 import type { ScoreStage, StageResult } from './stages.js';
 
 /** Seconds between forecasts and samples per forecast of the batch timeline. */
@@ -37,11 +38,12 @@ export const FORECAST_STAGE: ScoreStage = {
     const c = ev.models.model.config;
     const track = modelTrack(ctx, c.rate);
     const step = Math.max(1, Math.round(TIMELINE_EVERY_S * track.rate));
-    const first = c.stridePrior ? Math.min(c.priorHistory, Math.max(c.observe, track.steps - c.forecast - 1)) : c.observe;
+    const first = firstForecastStep(c, track);
     const points = [];
     for (let e = first; e + c.forecast < track.steps; e += step) points.push(forecastAt(track, e, ev));
     if (points.length === 0)
       return { metrics: empty(), usedModel: true, detail: { model: ctx.modelFile, timeline: [] }, warnings: [`the take is too short for a forecast timeline (it needs ${((c.observe + c.forecast + 1) / c.rate).toFixed(1)} s)`] };
+    const domain = takeDomain(ctx, c);
     const flags = flagSurprises(points.map((p) => p.surprise));
     const mean = (xs: number[]) => xs.reduce((s, x) => s + x, 0) / xs.length;
     const surprises = points.map((p) => p.surprise!).sort((a, b) => a - b);
@@ -62,7 +64,8 @@ export const FORECAST_STAGE: ScoreStage = {
         irregular_steps: episodes.length,
       },
       flags: episodes.map((e) => ({ stage: 'forecast', measure: 'surprise', value: Math.round(e.peak * 1000) / 1000, text: `irregular motion near ${span(e)}, to review: the recorded half second after ${e.peak_s.toFixed(1)} s departs from the forecast by ${e.peak.toFixed(2)} predicted SDs on average (the take's median ${median.toFixed(2)})` })),
-      detail: { model: ctx.modelFile, every_s: TIMELINE_EVERY_S, samples: TIMELINE_SAMPLES, timeline, episodes },
+      detail: { model: ctx.modelFile, every_s: TIMELINE_EVERY_S, samples: TIMELINE_SAMPLES, timeline, episodes, domain },
+      ...(domain.inside ? {} : { warnings: [domainWarning(domain, 'its forecast errors and irregular-motion flags')] }),
       usedModel: true,
     };
   },

@@ -4,6 +4,7 @@
 import { analyzeGait, gaitResultJson, type GaitAnalysis } from '../gait/analyze.js';
 import type { NormsFile } from '../norms/format.js';
 import { scoreAgainstNorms } from '../norms/score.js';
+import type { DomainCheck } from '../model/domain.js';
 import type { Track } from '../motion/track.js';
 import type { ImportedTake } from '../skeleton/import.js';
 import { COUPLING_STAGE } from './coupling-stage.js';
@@ -22,6 +23,8 @@ export interface StageContext {
   gaitJson?: Record<string, unknown>;
   /** The take as a model-rate track, built once for the model-based stages (model-cache.ts modelTrack). */
   track?: Track;
+  /** Whether the take lies in the model's straight-walking domain, checked once (model-cache.ts takeDomain). */
+  domain?: DomainCheck;
 }
 
 /** The output of one stage. */

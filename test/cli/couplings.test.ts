@@ -24,6 +24,9 @@ describe('jointloom couplings', () => {
     expect(j.pairs[0]).toMatchObject({ a: 'pelvis', b: 'thorax' });
     expect(j.pairs[0].static_mean).toHaveLength(4);
     expect(j.pairs[0].static_sd).toHaveLength(4);
+    // A straight walk lies in the model's straight-walking domain (src/model/domain.ts).
+    expect(j.domain.straight_walking).toBe(true);
+    expect(j.domain.stride_mean_1s_mm).toBeLessThan(100);
     expect(j.classic.pairs.map((p: { name: string }) => p.name)).toEqual(expect.arrayContaining(['hip-knee', 'knee-ankle', 'arm-leg']));
     const a = j.asymmetry;
     expect(['left', 'right']).toContain(a.side);
