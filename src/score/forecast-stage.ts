@@ -1,4 +1,4 @@
-// The forecast stage of scoring: the surprise timeline of a take. Every 0.2 s (`TIMELINE_EVERY_S`)
+// The forecast stage of scoring: the surprise timeline of a take. Every 0.3 s (`TIMELINE_EVERY_S`)
 // where the recorded future second exists, the model forecasts the next second with a few samples
 // (default 8); the take's steps whose recorded motion falls far outside the predicted spread are flagged
 // as irregular (evaluate.ts: above median + 4 MAD of the take's own timeline), and flagged points within
@@ -9,7 +9,7 @@ import { cachedModel, modelTrack, takeDomain } from './model-cache.js';
 import type { ScoreStage, StageResult } from './stages.js';
 
 /** Seconds between forecasts and samples per forecast of the batch timeline. */
-export const TIMELINE_EVERY_S = 0.2;
+export const TIMELINE_EVERY_S = 0.3;
 export const TIMELINE_SAMPLES = 8;
 
 const evaluators = new Map<string, Evaluator>();

@@ -1,5 +1,5 @@
 // The forecast stage of scoring: with a model it writes the surprise timeline of the take (one forecast
-// every 0.2 s where the recorded future second exists), the 1-s errors of the model and the stride-mean
+// every 0.3 s where the recorded future second exists), the 1-s errors of the model and the stride-mean
 // baseline and the irregular steps; without a model it writes nulls and does not mark the model used.
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -29,15 +29,16 @@ describe('forecast stage', () => {
   it('writes the timeline, errors and irregular steps with a model', () => {
     const r = scoreTake(bytes, 'stumble.bvh', { ...base, model: { file: modelPath, file_sha256: 'x', used: false } }, [GAIT_STAGE, FORECAST_STAGE]);
     const m = r.metrics;
-    // The tiny model's prior reads up to 5 s of history, so forecasts start at 5 s and run every 0.2 s (6
-    // steps at 30 Hz) while a second of recorded future remains: 5.0, 5.2, ... 12.8 s (40 points).
-    expect(m['forecast.forecast_points']).toBe(40);
+    // The tiny model's prior reads up to 5 s of history, so forecasts start at 5 s (step 150) and run every
+    // 0.3 s (9 steps at 30 Hz) while a second of recorded future remains (step + 30 < 420): 5.0, 5.3, ...
+    // 12.8 s (27 points).
+    expect(m['forecast.forecast_points']).toBe(27);
     expect(m['forecast.mpjpe_1s_mm']).toBeGreaterThan(0);
     expect(m['forecast.stride_mean_1s_mm']).toBeGreaterThan(0);
     expect(m['forecast.coverage_90']).toBeGreaterThanOrEqual(0);
     expect(m['forecast.coverage_90']).toBeLessThanOrEqual(1);
     const detail = r.detail.forecast as { timeline: { time_s: number; irregular: boolean }[] };
-    expect(detail.timeline.map((t) => t.time_s)).toEqual(Array.from({ length: 40 }, (_, k) => Math.round((5 + 0.2 * k) * 1000) / 1000));
+    expect(detail.timeline.map((t) => t.time_s)).toEqual(Array.from({ length: 27 }, (_, k) => Math.round((150 + 9 * k) / 30 * 1000) / 1000));
     // The stumble synthesized at 9 s is flagged within 0.5 s of it (the forecast issue's acceptance rule).
     expect(detail.timeline.some((t) => t.irregular && Math.abs(t.time_s - 9) <= 0.5)).toBe(true);
     // Flagged points within 0.5 s of each other are one episode and one flag.
