@@ -16,7 +16,7 @@ import { loadModel } from '../model/modelfile.js';
 import { DEFAULT_PAIRS, MOTION_NODES } from '../motion/roles.js';
 import { trackFromImported } from '../motion/track.js';
 import { importTake } from '../skeleton/import.js';
-import { domainWarning, modelDomainCheck } from '../model/domain.js';
+import { domainCheckJson, domainWarning, modelDomainCheck } from '../model/domain.js';
 import { CAUTION } from './caution.js';
 import { VERSION, emit, newCommand } from './program.js';
 import { importOptionsFrom, withImportOptions, type ImportFlags } from './import-options.js';
@@ -95,7 +95,7 @@ export function register(program: Command): void {
           pairs: Object.fromEntries(Array.from({ length: P }, (_, p) => [pairName(p), Array.from({ length: cycle.bins }, (_, b) => Array.from({ length: D }, (_, d) => r3(cycle.mean[(b * P + p) * D + d]!)))])),
         },
         caution: CAUTION,
-        domain: { stride_mean_1s_mm: domain.strideMeanMm === null ? null : r3(domain.strideMeanMm), straight_walking: domain.inside },
+        domain: domainCheckJson(domain),
         warnings: [...imported.warnings, ...classic.warnings, ...(norms ? [] : [`${modelPath} holds no normative coupling figures, so no asymmetry is scored`]), ...(outside ? [`${path}: ${outside}`] : [])],
       }));
       return;

@@ -4,12 +4,12 @@ import type { Command } from 'commander';
 import { existsSync } from 'node:fs';
 import { UsageError } from '../errors/index.js';
 import { trackFromImported, type Track } from '../motion/track.js';
-import { createEvaluator, flagSurprises, forecastAt, irregularEpisodes, type ForecastPoint, type MethodName } from '../model/evaluate.js';
+import { createEvaluator, episodeSpan, flagSurprises, forecastAt, irregularEpisodes, type ForecastPoint, type MethodName } from '../model/evaluate.js';
 import { HORIZONS_S } from '../model/metrics.js';
 import { defaultModelPath } from '../model/default-model.js';
 import { loadModel } from '../model/modelfile.js';
 import { twinOf } from '../model/pair-fit.js';
-import { domainWarning, modelDomainCheck } from '../model/domain.js';
+import { domainCheckJson, domainWarning, modelDomainCheck } from '../model/domain.js';
 import { importTake } from '../skeleton/import.js';
 import { writeFileAtomic } from '../util/atomic.js';
 import { emit, newCommand, numberOption } from './program.js';
@@ -100,7 +100,7 @@ export function register(program: Command): void {
     const ev = createEvaluator({ model, noCoupling }, flags.samples);
     const domain = modelDomainCheck(c, track);
     if (!domain.inside && !flags.json) process.stderr.write(`jointloom: warning: ${path}: ${domainWarning(domain, 'its forecast')}\n`);
-    const domainJson = { stride_mean_1s_mm: domain.strideMeanMm === null ? null : r1(domain.strideMeanMm), straight_walking: domain.inside };
+    const domainJson = domainCheckJson(domain);
     if (flags.every !== undefined) {
       const step = Math.max(1, Math.round(flags.every * track.rate));
       const points: ForecastPoint[] = [];
@@ -122,7 +122,7 @@ export function register(program: Command): void {
       else {
         const lines = [`${path}: ${points.length} forecasts every ${flags.every} s with ${modelPath}`, '  time s   surprise   1-s error mm   '];
         for (const t of timeline) lines.push(`  ${t.time_s.toFixed(2).padStart(6)}   ${(t.surprise ?? NaN).toFixed(2).padStart(8)}   ${String(t.mpjpe_1s_mm ?? '-').padStart(12)}   ${t.irregular ? 'irregular' : ''}`);
-        lines.push(episodes.length ? `  irregular motion to review near ${episodes.map((e) => (e.end_s > e.start_s ? `${e.start_s.toFixed(2)}-${e.end_s.toFixed(2)} s` : `${e.start_s.toFixed(2)} s`)).join(', ')}` : '  no irregular step found');
+        lines.push(episodes.length ? `  irregular motion to review near ${episodes.map((e) => episodeSpan(e, 2)).join(', ')}` : '  no irregular step found');
         emit(lines.join('\n'));
       }
       return;

@@ -7,7 +7,7 @@ import { TREND_METRICS, subjectHistory, type SubjectHistory } from '../ledger/hi
 import { mergeLedgers } from '../ledger/merge.js';
 import { InputError } from '../errors/index.js';
 import { DEFAULT_LEDGER, openLedger } from '../ledger/open.js';
-import { listScores } from '../ledger/query.js';
+import { listScores, modelKeysByRecency } from '../ledger/query.js';
 import { cohortCsv } from '../report/cohort-csv.js';
 import { metricLabel, metricNames } from '../score/columns.js';
 import { CAUTION } from './caution.js';
@@ -71,13 +71,10 @@ export function register(program: Command): void {
       checkOutputFolder(f.out);
       const db = openLedger(f.ledger, { mustExist: true });
       try {
-        const all = listScores(db, {});
-        if (!all.length) throw new InputError(`${f.ledger}: the ledger holds no scores yet; run jointloom batch first.`);
-        const key = f.model ?? [...all].sort((a, b) => a.scoredAt.localeCompare(b.scoredAt)).pop()!.modelKey;
-        if (!all.some((r) => r.modelKey === key)) {
-          const keys = [...new Set(all.map((r) => r.modelKey))].sort();
-          throw new InputError(`${f.ledger}: no scores under model ${key}; the ledger holds ${keys.join(', ')}.`);
-        }
+        const keys = modelKeysByRecency(db);
+        if (!keys.length) throw new InputError(`${f.ledger}: the ledger holds no scores yet; run jointloom batch first.`);
+        const key = f.model ?? keys[0]!;
+        if (!keys.includes(key)) throw new InputError(`${f.ledger}: no scores under model ${key}; the ledger holds ${[...keys].sort().join(', ')}.`);
         const r = writeCohortReport(cohortData(db, f.ledger, key, VERSION), f.out, CAUTION);
         emit(`cohort report: ${r.html}; CSV: ${r.csv}`);
       } finally { db.close(); }

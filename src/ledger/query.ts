@@ -33,6 +33,11 @@ export function listScores(db: Ledger, o: { modelKey?: string; subject?: string 
   });
 }
 
+/** Returns the model keys the ledger holds scores under, the one of the latest score first. */
+export function modelKeysByRecency(db: Ledger): string[] {
+  return (db.prepare('SELECT model_key AS key FROM scores GROUP BY model_key ORDER BY max(scored_at) DESC, model_key').all() as { key: string }[]).map((r) => r.key);
+}
+
 /** Returns the failures, optionally of one model. */
 export function listFailures(db: Ledger, modelKey?: string): FailureRow[] {
   return db.prepare(`SELECT sub.code AS subject, se.label AS session, t.path AS path, t.sha256 AS sha256, f.model_key AS modelKey, f.reason AS reason, f.attempts AS attempts, f.last_at AS lastAt

@@ -37,6 +37,11 @@ export function domainCheck(track: Track, first: number, forecastSteps: number):
   return { strideMeanMm: m, inside: m <= DOMAIN_LIMIT_MM };
 }
 
+/** Returns the check as the CLI's JSON writes it (the error to 0.1 mm). */
+export function domainCheckJson(d: DomainCheck): { stride_mean_1s_mm: number | null; straight_walking: boolean } {
+  return { stride_mean_1s_mm: d.strideMeanMm === null ? null : Math.round(d.strideMeanMm * 10) / 10, straight_walking: d.inside };
+}
+
 /** Returns the warning for a take outside the domain (what is affected is named by the caller). */
 export function domainWarning(d: DomainCheck, affected: string): string {
   return `the stride-mean forecast misses this take by ${d.strideMeanMm!.toFixed(0)} mm at 1 s (median; straight walking stays below ${DOMAIN_LIMIT_MM} mm): it holds turns, curves or other motion outside the coupling model's straight-walking training, so ${affected} cannot be relied on`;

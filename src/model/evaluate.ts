@@ -130,3 +130,8 @@ export function irregularEpisodes(points: readonly { time_s: number; surprise: n
   }
   return out;
 }
+
+/** Returns an episode's time span as text ("9.2-9.8 s", or "11.3 s" for a single point) with `digits` decimals. */
+export function episodeSpan(e: IrregularEpisode, digits = 1): string {
+  return e.end_s > e.start_s ? `${e.start_s.toFixed(digits)}-${e.end_s.toFixed(digits)} s` : `${e.start_s.toFixed(digits)} s`;
+}

@@ -3,8 +3,8 @@
 // (default 8); the take's steps whose recorded motion falls far outside the predicted spread are flagged
 // as irregular (evaluate.ts: above median + 4 MAD of the take's own timeline), and flagged points within
 // 0.5 s of each other count as one episode, one flag. Skipped without a model.
-import { createEvaluator, flagSurprises, forecastAt, irregularEpisodes, type Evaluator, type IrregularEpisode } from '../model/evaluate.js';
-import { domainWarning, firstForecastStep } from '../model/domain.js';
+import { createEvaluator, episodeSpan, flagSurprises, forecastAt, irregularEpisodes, type Evaluator } from '../model/evaluate.js';
+import { domainCheckJson, domainWarning, firstForecastStep } from '../model/domain.js';
 import { cachedModel, modelTrack, takeDomain } from './model-cache.js';
 import type { ScoreFlag } from './record.js';
 import type { ScoreStage, StageResult } from './stages.js';
@@ -54,8 +54,7 @@ export const FORECAST_STAGE: ScoreStage = {
     }));
     const episodes = irregularEpisodes(timeline);
     const median = surprises[Math.floor(surprises.length / 2)]!;
-    const span = (e: IrregularEpisode) => (e.end_s > e.start_s ? `${e.start_s.toFixed(1)}-${e.end_s.toFixed(1)} s` : `${e.start_s.toFixed(1)} s`);
-    const episodeFlags: ScoreFlag[] = episodes.map((e) => ({ stage: 'forecast', measure: 'surprise', value: Math.round(e.peak * 1000) / 1000, text: `irregular motion near ${span(e)}, to review: the recorded half second after ${e.peak_s.toFixed(1)} s departs from the forecast by ${e.peak.toFixed(2)} predicted SDs on average (the take's median ${median.toFixed(2)})` }));
+    const episodeFlags: ScoreFlag[] = episodes.map((e) => ({ stage: 'forecast', measure: 'surprise', value: Math.round(e.peak * 1000) / 1000, text: `irregular motion near ${episodeSpan(e)}, to review: the recorded half second after ${e.peak_s.toFixed(1)} s departs from the forecast by ${e.peak.toFixed(2)} predicted SDs on average (the take's median ${median.toFixed(2)})` }));
     return {
       metrics: {
         forecast_points: points.length,
@@ -67,7 +66,7 @@ export const FORECAST_STAGE: ScoreStage = {
       },
       detail: { model: ctx.modelFile, every_s: TIMELINE_EVERY_S, samples: TIMELINE_SAMPLES, timeline, episodes, domain },
       // Outside straight walking the take's model figures are in doubt: a flag, so the cohort report shows it.
-      flags: [...episodeFlags, ...(domain.inside ? [] : [{ stage: 'forecast', measure: 'domain', value: Math.round(domain.strideMeanMm! * 10) / 10, text: domainWarning(domain, 'its forecast, irregular-motion and coupling figures') }])],
+      flags: [...episodeFlags, ...(domain.inside ? [] : [{ stage: 'forecast', measure: 'domain', value: domainCheckJson(domain).stride_mean_1s_mm!, text: domainWarning(domain, 'its forecast, irregular-motion and coupling figures') }])],
       usedModel: true,
     };
   },
