@@ -4,7 +4,8 @@
 // walkers), on two threads. Same seed, same machine: the same weights.
 //
 // Run: npm run train:default [-- --epochs N] [--subjects N] [--seconds S] [--seed N] [--output FILE] [--json] [--quiet]
-// (--norms-only recomputes the normative coupling figures of an existing file, --spread-only its forecast spread calibration; experiments: [--config '{"reconSteps": 10}'] [--lr 0.001] [--no-twin]; the shipped model uses none of them)
+// (--norms-only recomputes the normative coupling figures of an existing file, --spread-only its forecast spread calibration,
+// --readout-only its pair readouts and then its spread calibration; experiments: [--config '{"reconSteps": 10}'] [--lr 0.001] [--no-twin]; the shipped model uses none of them)
 import { statSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -13,7 +14,8 @@ import { progressBar } from '../src/cli/progress.js';
 import type { TrainingTake } from '../src/model/batch.js';
 import { loadModel, modelToJson, saveModel } from '../src/model/modelfile.js';
 import { calibrateSpread } from '../src/model/calibrate.js';
-import { calibrationStride, fitPair, heldOutWindows, savePair, twinOf } from '../src/model/pair-fit.js';
+import { calibrationStride, fitPair, fitReadouts, heldOutWindows, runSplit, savePair, twinOf } from '../src/model/pair-fit.js';
+import { readoutSummaryJson, type ReadoutOutcome } from '../src/model/readout-fit.js';
 import type { TrainingSummary } from '../src/model/train.js';
 import { normativeCohort, trainingCohort } from '../src/synth/cohort.js';
 import { COUPLING_NORMS_KEY, couplingNorms, type CouplingNorms } from '../src/analysis/coupling-asymmetry.js';
@@ -28,7 +30,7 @@ export const DEFAULT_RECIPE = { subjects: 32, seconds: 30, epochs: 4, seed: 1, w
 const { values: v } = parseArgs({
   options: {
     epochs: { type: 'string' }, subjects: { type: 'string' }, seconds: { type: 'string' }, seed: { type: 'string' },
-    output: { type: 'string' }, json: { type: 'boolean' }, quiet: { type: 'boolean' }, config: { type: 'string' }, 'norms-only': { type: 'boolean' }, 'spread-only': { type: 'boolean' }, lr: { type: 'string' }, twin: { type: 'boolean', default: true }, 'no-twin': { type: 'boolean' },
+    output: { type: 'string' }, json: { type: 'boolean' }, quiet: { type: 'boolean' }, config: { type: 'string' }, 'norms-only': { type: 'boolean' }, 'spread-only': { type: 'boolean' }, 'readout-only': { type: 'boolean' }, lr: { type: 'string' }, twin: { type: 'boolean', default: true }, 'no-twin': { type: 'boolean' },
   },
 });
 const num = (s: string | undefined, d: number) => (s === undefined ? d : Number(s));
@@ -57,13 +59,29 @@ if (v['norms-only']) {
   console.log(`${output}: normative coupling figures from ${n.subjects} normal walkers (control take scores median ${n.controlScoreP50.toFixed(2)}, 90th percentile ${n.controlScoreP90.toFixed(2)})${stale ? '; its joint discriminant was fitted under the old figures and is dropped: run npm run fit:joint-profiles' : ''}`);
   process.exit(0);
 }
-if (v['spread-only']) {
-  // Recalibrate only the forecast spread of an existing model file and its twin on the held-out training subjects (weights untouched).
+/** Returns one line on a readout fit: its ridge weight and the held-out knot error before and after (leg lengths: the cohort's leg lengths differ). */
+function readoutLine(name: string, o: ReadoutOutcome | null): string {
+  if (!o) return `${name}: no readout (no stride prior)`;
+  const f = o.fit;
+  if (!f) return `${name}: no readout (${o.dropped})`;
+  const best = f.validError.find((e) => e.lambda === f.readout.lambda);
+  const kept = o.dropped ? `dropped: ${o.dropped}` : `lambda ${f.readout.lambda}`;
+  return `${name} readout (${f.readout.senders}): ${kept}; ${f.trainWindows} training windows; held-out knot error ${(1000 * f.validNone).toFixed(1)} -> ${best ? (1000 * best.error).toFixed(1) : '-'} milli-leg-lengths on ${f.validWindows} windows (${f.validError.map((e) => `${e.lambda}: ${(1000 * e.error).toFixed(1)}`).join(', ')})`;
+}
+if (v['spread-only'] || v['readout-only']) {
+  // Refit the pair readouts (with --readout-only) and recalibrate the forecast spread of an existing model file and its
+  // twin on the held-out training subjects (weights, normative figures and joint discriminant untouched: the factors do not change).
   const loaded = loadModel(output), twin = twinOf(loaded, output);
   const validSubjects = loaded.training?.validSubjects;
   if (!validSubjects?.length) throw new Error(`${output}: the model file names no held-out subjects to calibrate on`);
   const options = { validSubjects, windowStride: recipe.windowStride };
-  const wins = heldOutWindows(takes, options, loaded.model, calibrationStride(loaded.training));
+  const split = runSplit(takes, options, loaded.model);
+  if (v['readout-only']) {
+    const r = fitReadouts(loaded.model, twin, split, recipe.windowStride, calibrationStride(loaded.training));
+    console.log(readoutLine('model', r.model));
+    console.log(readoutLine('twin', r.twin));
+  }
+  const wins = heldOutWindows(takes, options, loaded.model, calibrationStride(loaded.training), split);
   const before = { k: loaded.model.spreadScale, adapt: loaded.model.spreadAdapt };
   calibrateSpread(loaded.model, wins);
   if (twin) calibrateSpread(twin, wins);
@@ -94,6 +112,7 @@ const report = {
   model: { epochs_run: s.epochs, best_epoch: s.bestEpoch + 1, steps: s.steps, ms_per_step: Math.round(s.msPerStep), valid_loss: s.best?.total ?? null, valid_forecast_mm: s.validForecastMm.map((x) => Math.round(x * 10) / 10), kl_static_per_dim: s.best?.klStaticPerDim ?? null, kl_dynamic_per_dim: s.best?.klDynamicPerDim ?? null },
   twin: pair.twinSummary ? { epochs_run: pair.twinSummary.epochs, best_epoch: pair.twinSummary.bestEpoch + 1, ms_per_step: Math.round(pair.twinSummary.msPerStep), valid_forecast_mm: pair.twinSummary.validForecastMm.map((x) => Math.round(x * 10) / 10) } : null,
   spread: pair.spread,
+  readout: { model: readoutSummaryJson(pair.readout.model), twin: readoutSummaryJson(pair.readout.twin) },
   coupling_norms: { controls: norms.subjects, control_score_p50: norms.controlScoreP50, control_score_p90: norms.controlScoreP90 },
 };
 if (v.json) console.log(JSON.stringify(report, null, 2));
@@ -102,6 +121,8 @@ else {
   console.log(`  held-out forecast error (mm, mean over the second) before training and after each epoch: ${report.model.valid_forecast_mm.join(' ')}`);
   console.log(`  held-out loss ${report.model.valid_loss?.toFixed(4)}; KL per static dimension ${report.model.kl_static_per_dim?.map((x) => x.toFixed(3)).join(' ')}; per dynamic dimension ${report.model.kl_dynamic_per_dim?.map((x) => x.toFixed(3)).join(' ')}`);
   console.log(`  twin: ${report.twin ? `${report.twin.epochs_run} epochs (best ${report.twin.best_epoch}), ${report.twin.ms_per_step} ms a step, held-out forecast error ${report.twin.valid_forecast_mm.join(' ')}` : 'none'}; spread scales ${pair.spread.model.toFixed(3)} / ${pair.spread.twin?.toFixed(3) ?? '-'}`);
+  console.log(`  ${readoutLine('model', pair.readout.model)}`);
+  console.log(`  ${readoutLine('twin', pair.readout.twin)}`);
   console.log(`  normative coupling figures from ${norms.subjects} normal walkers: control take scores median ${norms.controlScoreP50.toFixed(2)}, 90th percentile ${norms.controlScoreP90.toFixed(2)}`);
   console.log(`  whole fit ${report.total_s} s (cohort synthesis ${report.cohort_s} s)`);
   console.log('  joint discriminant: none yet for these weights; run npm run fit:joint-profiles');

@@ -5,6 +5,7 @@ import { InputError } from '../errors/index.js';
 import { trackFromImported } from '../motion/track.js';
 import type { TrainingTake } from '../model/batch.js';
 import { fitPair, savePair } from '../model/pair-fit.js';
+import { readoutSummaryJson } from '../model/readout-fit.js';
 import { takeIdentity } from '../score/identity.js';
 import { analyzeGait } from '../gait/analyze.js';
 import { DEFAULT_LOWPASS_HZ } from '../gait/input.js';
@@ -80,9 +81,12 @@ export function register(program: Command): void {
       match_pairing: flags.matchPairing, restricted_labeling: flags.restrictedLabeling,
       valid_loss: s.validLoss[s.bestEpoch] ?? null, ms_per_step: s.msPerStep, spread_scale: pair.spread,
       twin: pair.twinSummary ? { best_epoch: pair.twinSummary.bestEpoch, valid_loss: pair.twinSummary.validLoss[pair.twinSummary.bestEpoch] ?? null } : null,
+      readout: { model: readoutSummaryJson(pair.readout.model), twin: readoutSummaryJson(pair.readout.twin) },
     };
+    const r = summary.readout.model, milli = (x: number | null) => (x === null ? '-' : (1000 * x).toFixed(1));
+    const readoutText = !r ? '' : r.kept ? `; pair readout kept (held-out knot error ${milli(r.valid_knot_error_before)} -> ${milli(r.valid_knot_error_after)} milli-leg-lengths)` : `; no pair readout (${r.dropped})`;
     if (flags.json) emit(JSON.stringify(summary, null, 2));
-    else emit(`wrote ${flags.output}: ${files.length} takes of ${summary.subjects} subjects, ${s.epochs} epochs (best ${s.bestEpoch + 1}), held-out loss ${summary.valid_loss?.toFixed(4) ?? '-'}, ${s.msPerStep.toFixed(0)} ms a step${pair.twin ? '; no-coupling twin trained on the same budget' : ''}`);
+    else emit(`wrote ${flags.output}: ${files.length} takes of ${summary.subjects} subjects, ${s.epochs} epochs (best ${s.bestEpoch + 1}), held-out loss ${summary.valid_loss?.toFixed(4) ?? '-'}, ${s.msPerStep.toFixed(0)} ms a step${pair.twin ? '; no-coupling twin trained on the same budget' : ''}${readoutText}`);
   });
   program.addCommand(cmd);
 }

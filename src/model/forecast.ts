@@ -14,6 +14,7 @@ import { observedPoints, pointOfStep, totalPoints } from './config.js';
 import { decoderFactors, decoderForward } from './decoder.js';
 import { encoderForward, type Batch } from './encoder.js';
 import { stridePriorScratch, stridePriorSteps, type CouplingModel, type StridePriorScratch } from './model.js';
+import { readoutCorrection, readoutScratch, type ReadoutScratch } from './readout.js';
 import { backcastError, backcastScratch, spreadFactor, type BackcastScratch } from './spread.js';
 import { createWorkspace, type Workspace } from './workspace.js';
 
@@ -54,6 +55,8 @@ export interface Forecaster {
   backcast: BackcastScratch;
   /** With the stride prior: its steps tiled over the samples (forecast × samples × N × 6) and work arrays. */
   prior: { tiled: Buf; steps: Float64Array; scratch: StridePriorScratch } | null;
+  /** With a pair readout: its work arrays and the correction of the current window (forecast × N × 3). */
+  readout: { scratch: ReadoutScratch; correction: Float64Array } | null;
 }
 
 /** Returns a forecaster (work buffers) for `samples` samples per forecast. */
@@ -66,12 +69,14 @@ export function createForecaster(model: CouplingModel, samples = 20): Forecaster
   const sampleWs = createWorkspace(model, samples);
   for (const rc of sampleWs.rollout) rc.keep = false;
   const prior = c.stridePrior ? { tiled: model.store.alloc(c.forecast * samples * W), steps: new Float64Array(c.forecast * W), scratch: stridePriorScratch(c) } : null;
-  return { model, sampleCount: samples, encoderWs: createWorkspace(model, 1), sampleWs, batch, prior, backcast: backcastScratch(c) };
+  const readout = model.readout ? { scratch: readoutScratch(c), correction: new Float64Array(c.forecast * c.nodes * 3) } : null;
+  return { model, sampleCount: samples, encoderWs: createWorkspace(model, 1), sampleWs, batch, prior, backcast: backcastScratch(c), readout };
 }
 
 /**
  * Returns the deterministic decoded paths of every sample (samples × steps × N × 6, normalised, before
  * the output noise) of the forecaster's sample workspace after encoding `win`; rng draws the factors.
+ * With a pair readout (and the window's full history) its correction is added to every path.
  */
 export function decodePaths(fc: Forecaster, win: Window, rng: Pcg32, staticFactors?: ForecastOptions['staticFactors']): Float64Array {
   const { model, encoderWs: e, sampleWs: s, batch } = fc;
@@ -136,7 +141,28 @@ export function decodePaths(fc: Forecaster, win: Window, rng: Pcg32, staticFacto
     s.roll.set(rc.out.subarray(0, step) as never, (f + 1) * step);
     for (let m = 0; m < Sm; m++) paths.set(rc.out.subarray(m * W, (m + 1) * W) as never, (m * F + f) * W);
   }
+  if (model.readout) addReadout(fc, win, paths);
   return paths;
+}
+
+/** Adds the pair readout's correction of `win` to every path (normalised): positions, and velocities as its backward differences. */
+function addReadout(fc: Forecaster, win: Window, paths: Float64Array): void {
+  const { model } = fc, c = model.config, N = c.nodes, W = N * STATE_SIZE, F = c.forecast, sd = model.stats.sd;
+  // Made here on first use, so a forecaster built before the readout was fitted applies it too.
+  fc.readout ??= { scratch: readoutScratch(c), correction: new Float64Array(F * N * 3) };
+  const d = readoutCorrection(c, model.readout!, win.history, win.historySteps, fc.readout.scratch, fc.readout.correction);
+  if (!d) return;
+  for (let f = 0; f < F; f++)
+    for (let n = 0; n < N; n++)
+      for (let a = 0; a < 3; a++) {
+        const p = d[(f * N + n) * 3 + a]!, prev = f > 0 ? d[((f - 1) * N + n) * 3 + a]! : 0;
+        const dp = p / sd[n * STATE_SIZE + a]!, dv = ((p - prev) * c.rate) / sd[n * STATE_SIZE + 3 + a]!;
+        for (let m = 0; m < fc.sampleCount; m++) {
+          const o = (m * F + f) * W + n * STATE_SIZE + a;
+          paths[o] = paths[o]! + dp;
+          paths[o + 3] = paths[o + 3]! + dv;
+        }
+      }
 }
 
 /** Writes positions (steps × N × 3) of world state (steps × N × 6) into out from `offset`. */

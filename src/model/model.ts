@@ -9,6 +9,7 @@ import { ParamStore, type Param } from '../nn/params.js';
 import { Pcg32 } from '../nn/prng.js';
 import { registeredStrideForecast, strideForecast } from './baselines.js';
 import { resolveModelConfig, type ModelConfig } from './config.js';
+import type { PairReadout } from './readout.js';
 import type { SpreadAdapt } from './spread.js';
 
 /** Encoder input width per node: state 6 plus the node one-hot. */
@@ -72,6 +73,8 @@ export interface CouplingModel {
   spreadScale: number;
   /** How the noise SD follows each window's backcast error (spread.ts); null: the same for every window. */
   spreadAdapt: SpreadAdapt | null;
+  /** The pair readout's linear correction of the decoded forecast (readout.ts); null before it is fitted. */
+  readout: PairReadout | null;
 }
 
 /** Options of createModel. */
@@ -102,7 +105,7 @@ export function createModel(config: Partial<ModelConfig>, stats: MotionStats, op
   if (stats.mean.length !== c.nodes * STATE_SIZE) throw new RangeError(`normalisation statistics hold ${stats.mean.length / STATE_SIZE} nodes, the config ${c.nodes}`);
   const store = new ParamStore({ precision: options.precision ?? 32 });
   const params = buildParams(store, c, new Pcg32(options.seed ?? 1, 0x6d6f64656c));
-  return { config: c, stats, store, params, kinematic: c.kinematic ? kinematicStep(c, stats) : null, spreadScale: 1, spreadAdapt: null };
+  return { config: c, stats, store, params, kinematic: c.kinematic ? kinematicStep(c, stats) : null, spreadScale: 1, spreadAdapt: null, readout: null };
 }
 
 /** Returns the gains and biases of the kinematic step p(t + 1) = p(t) + v(t) / rate in normalised units. */

@@ -11,6 +11,7 @@ import { statsFromJson, statsToJson, type MotionStatsJson } from '../motion/norm
 import { writeFileAtomic } from '../util/atomic.js';
 import { resolveModelConfig, type ModelConfig } from './config.js';
 import { createModel, type CouplingModel } from './model.js';
+import { READOUT_BACKCAST, READOUT_BACKCAST_STEPS, READOUT_LAGS, readoutFeaturesPerNode, readoutKnots, readoutPriorSteps, type PairReadout } from './readout.js';
 import type { SpreadAdapt } from './spread.js';
 import type { TrainingSummary } from './train.js';
 
@@ -28,11 +29,74 @@ export interface ModelFileJson {
   spreadScale: number;
   /** How the noise SD follows each window's backcast error (absent in files written before it: a fixed spread). */
   spreadAdapt?: SpreadAdapt | null;
+  /** The pair readout (absent in files written before it, or before it was fitted: no correction). */
+  readout?: ReadoutJson | null;
   training: TrainingSummary | null;
   /** Extra data other layers store with the model (e.g. normative factor statistics); plain JSON. */
   extras: Record<string, unknown>;
   layout: { name: string; shape: number[] }[];
   weights: { dtype: 'float32'; count: number; sha256: string; base64: string };
+}
+
+/** The JSON form of a pair readout: its layout, then feature means, feature SDs, target means and weights as one Float32 block. */
+export interface ReadoutJson {
+  senders: PairReadout['senders'];
+  lambda: number;
+  knots: number[];
+  priorSteps: number[];
+  lags: number[];
+  backcast: number;
+  backcastSteps: number[];
+  values: { dtype: 'float32'; count: number; sha256: string; base64: string };
+}
+
+/** Returns the number of weights of a readout of `senders` under a configuration. */
+function readoutWeightCount(c: ModelConfig, senders: PairReadout['senders']): number {
+  const per = readoutFeaturesPerNode(c), out = readoutKnots(c).length * 3;
+  return senders === 'all' ? c.nodes * per * c.nodes * out : c.nodes * per * out;
+}
+
+function float32Block(values: Float64Array): { dtype: 'float32'; count: number; sha256: string; base64: string } {
+  const f32 = Float32Array.from(values);
+  const bytes = Buffer.from(f32.buffer, f32.byteOffset, f32.byteLength);
+  if (!littleEndian()) swap32(bytes);
+  return { dtype: 'float32', count: f32.length, sha256: createHash('sha256').update(bytes).digest('hex'), base64: bytes.toString('base64') };
+}
+
+function readoutToJson(r: PairReadout): ReadoutJson {
+  const all = new Float64Array(r.featureMean.length * 2 + r.targetMean.length + r.weights.length);
+  all.set(r.featureMean, 0);
+  all.set(r.featureSd, r.featureMean.length);
+  all.set(r.targetMean, 2 * r.featureMean.length);
+  all.set(r.weights, 2 * r.featureMean.length + r.targetMean.length);
+  return {
+    senders: r.senders, lambda: r.lambda, knots: [...r.knots], priorSteps: [...r.priorSteps], lags: [...READOUT_LAGS],
+    backcast: READOUT_BACKCAST, backcastSteps: [...READOUT_BACKCAST_STEPS], values: float32Block(all),
+  };
+}
+
+/** Returns the readout of its JSON form, checked against the model's configuration; `bad` throws. */
+function readoutFromJson(v: unknown, c: ModelConfig, bad: (why: string) => never): PairReadout {
+  if (typeof v !== 'object' || v === null) return bad('the readout block is malformed');
+  const r = v as Partial<ReadoutJson>;
+  if (r.senders !== 'all' && r.senders !== 'self') bad(`the readout's senders are ${JSON.stringify(r.senders)}, expected "all" or "self"`);
+  const same = (a: unknown, b: readonly number[]) => Array.isArray(a) && a.length === b.length && a.every((x, i) => x === b[i]);
+  if (!same(r.knots, readoutKnots(c)) || !same(r.priorSteps, readoutPriorSteps(c)) || !same(r.lags, READOUT_LAGS) || r.backcast !== READOUT_BACKCAST || !same(r.backcastSteps, READOUT_BACKCAST_STEPS))
+    bad('its readout layout (knots, prior steps, lags, backcast) is not the one this build computes; refit the model');
+  if (typeof r.lambda !== 'number' || !(r.lambda >= 0)) bad('the readout lambda must be a number ≥ 0');
+  const d = c.nodes * readoutFeaturesPerNode(c), m = c.nodes * readoutKnots(c).length * 3, w = readoutWeightCount(c, r.senders!);
+  const b = r.values;
+  if (!b || b.dtype !== 'float32' || typeof b.base64 !== 'string' || typeof b.sha256 !== 'string' || b.count !== 2 * d + m + w)
+    bad(`the readout values block is missing or malformed (${2 * d + m + w} values expected)`);
+  const bytes = Buffer.from(b!.base64, 'base64');
+  if (bytes.length !== b!.count * 4) bad(`the readout values hold ${bytes.length} bytes, ${b!.count * 4} expected (truncated?)`);
+  if (createHash('sha256').update(bytes).digest('hex') !== b!.sha256) bad('the readout values do not match their SHA-256 checksum (the file is corrupt)');
+  if (!littleEndian()) swap32(bytes);
+  const f = Float64Array.from(new Float32Array(bytes.buffer.slice(bytes.byteOffset, bytes.byteOffset + bytes.length)));
+  for (let i = 0; i < f.length; i++) if (!Number.isFinite(f[i]!)) bad(`readout value ${i} is not a finite number`);
+  const featureSd = f.slice(d, 2 * d);
+  if (featureSd.some((x) => !(x > 0))) bad('a readout feature SD is not positive');
+  return { senders: r.senders!, lambda: r.lambda!, knots: readoutKnots(c), priorSteps: readoutPriorSteps(c), featureMean: f.slice(0, d), featureSd, targetMean: f.slice(2 * d, 2 * d + m), weights: f.slice(2 * d + m) };
 }
 
 /** Returns the model as a model-file JSON value. */
@@ -43,7 +107,8 @@ export function modelToJson(model: CouplingModel, training: TrainingSummary | nu
   if (!littleEndian()) swap32(bytes);
   return {
     format: MODEL_FORMAT, version: MODEL_VERSION, nodes: [...model.stats.nodes], config: { ...model.config },
-    stats: statsToJson(model.stats), spreadScale: model.spreadScale, spreadAdapt: model.spreadAdapt, training, extras,
+    stats: statsToJson(model.stats), spreadScale: model.spreadScale, spreadAdapt: model.spreadAdapt,
+    ...(model.readout ? { readout: readoutToJson(model.readout) } : {}), training, extras,
     layout: model.store.params.map((p) => ({ name: p.name, shape: [...p.shape] })),
     weights: { dtype: 'float32', count: f32.length, sha256: createHash('sha256').update(bytes).digest('hex'), base64: bytes.toString('base64') },
   };
@@ -123,6 +188,7 @@ export function modelFromJson(value: unknown, source: string): LoadedModel {
       bad('spreadAdapt must hold an exponent in 0..4 and a finite positive reference');
     model.spreadAdapt = { exponent: adapt.exponent, reference: adapt.reference };
   }
+  if (v.readout !== undefined && v.readout !== null) model.readout = readoutFromJson(v.readout, config, bad);
   const extras = typeof v.extras === 'object' && v.extras !== null ? v.extras : {};
   return { model, training: (v.training ?? null) as TrainingSummary | null, extras };
 }

@@ -6,7 +6,8 @@ import { calibrateSpread } from './calibrate.js';
 import type { CouplingModel } from './model.js';
 import { modelFromJson, modelToJson, saveModel, type LoadedModel } from './modelfile.js';
 import { modelWindowOptions } from './config.js';
-import { heldOutSplit } from './split.js';
+import { fitModelReadout, type ReadoutOutcome } from './readout-fit.js';
+import { heldOutSplit, type HeldOutSplit } from './split.js';
 import { trainParallel } from './parallel.js';
 import { train, type TrainOptions, type TrainProgress, type TrainingSummary } from './train.js';
 
@@ -17,12 +18,18 @@ export interface FittedPair {
   twinSummary: TrainingSummary | null;
   /** Spread scales fitted so the 90 % band covers 90 % of held-out future positions. */
   spread: { model: number; twin: number | null };
+  /** The pair readouts' fits (null without the stride prior, whose forecast they read). */
+  readout: { model: ReadoutOutcome | null; twin: ReadoutOutcome | null };
+}
+
+/** Returns the run's split of takes into training and held-out ones (split.ts), as training makes it. */
+export function runSplit(takes: readonly TrainingTake[], options: TrainOptions, model: CouplingModel): HeldOutSplit {
+  return heldOutSplit(takes, model.config, options.validSubjects, options.batchSize ?? 16, options.windowStride ?? 3);
 }
 
 /** Returns the held-out windows (every `stride` steps, each with its full causal history) of the run's held-out takes. */
-export function heldOutWindows(takes: readonly TrainingTake[], options: TrainOptions, model: CouplingModel, stride: number): Window[] {
+export function heldOutWindows(takes: readonly TrainingTake[], options: TrainOptions, model: CouplingModel, stride: number, split = runSplit(takes, options, model)): Window[] {
   const c = model.config, first = c.stridePrior ? c.priorHistory : c.observe;
-  const split = heldOutSplit(takes, c, options.validSubjects, options.batchSize ?? 16, options.windowStride ?? 3);
   const out: Window[] = [];
   for (const t of split.valid)
     for (const w of windowsOf(t.track, stride, modelWindowOptions(c))) if (w.futureSteps === c.forecast && w.endObservedStep >= first) out.push(w);
@@ -42,7 +49,7 @@ export type FitPairOptions = TrainOptions & {
    * are the same for any thread count (train.ts reduces shard gradients in a fixed order).
    */
   threads?: number;
-  onPhase?: (phase: 'model' | 'twin' | 'calibrate') => void;
+  onPhase?: (phase: 'model' | 'twin' | 'readout' | 'calibrate') => void;
   onProgress?: (p: TrainProgress) => void;
 };
 
@@ -58,10 +65,26 @@ export async function fitPair(takes: readonly TrainingTake[], options: FitPairOp
     twin = r.model;
     twinSummary = r.summary;
   }
+  const split = runSplit(takes, options, model);
+  options.onPhase?.('readout');
+  const readout = fitReadouts(model, twin, split, options.windowStride ?? 3, calibrationStride(summary));
   options.onPhase?.('calibrate');
-  const wins = heldOutWindows(takes, options, model, calibrationStride(summary));
+  const wins = heldOutWindows(takes, options, model, calibrationStride(summary), split);
   const spread = { model: wins.length ? calibrateSpread(model, wins) : model.spreadScale, twin: twin && wins.length ? calibrateSpread(twin, wins) : null };
-  return { model, summary, twin, twinSummary, spread };
+  return { model, summary, twin, twinSummary, spread, readout };
+}
+
+/**
+ * Fits the pair readouts of the model (every node to every receiver) and its twin (each node to itself)
+ * on the split's training takes, windows every `stride` steps, the ridge weight picked on the held-out
+ * takes' windows every `validStride` steps; none without the stride prior.
+ */
+export function fitReadouts(model: CouplingModel, twin: CouplingModel | null, split: HeldOutSplit, stride: number, validStride: number): FittedPair['readout'] {
+  if (!model.config.stridePrior) return { model: null, twin: null };
+  return {
+    model: fitModelReadout(model, split.train, split.valid, stride, validStride),
+    twin: twin ? fitModelReadout(twin, split.train, split.valid, stride, validStride) : null,
+  };
 }
 
 /** Writes the pair to one model file (the twin under extras.no_coupling) and returns the path. */

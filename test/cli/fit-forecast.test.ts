@@ -28,9 +28,13 @@ describe('fit and forecast commands', () => {
     expect(s.subjects).toBe(3);
     expect(s.valid_subjects.length).toBeGreaterThanOrEqual(1);
     expect(s.twin).not.toBeNull();
+    // 6-s takes hold no window with the readout's full history: the fit says so and keeps none.
+    expect(s.readout.model.kept).toBe(false);
+    expect(s.readout.model.dropped).toMatch(/no training window has \d+\.\d s of history/);
     const file = JSON.parse(readFileSync(model, 'utf8'));
     expect(file.format).toBe('jointloom-coupling-model');
     expect(file.extras.no_coupling.config.noCoupling).toBe(true);
+    expect(file.readout).toBeUndefined();
   }, 300_000);
 
   it('fit --no-match-pairing --no-restricted-labeling writes the ablation into the model file', async () => {
