@@ -39,8 +39,13 @@ export function bandStats(samples: Float64Array, sampleCount: number, truth: Flo
   };
   let inside = 0, score = 0;
   for (let c = 0; c < L; c++) {
-    for (let s = 0; s < sampleCount; s++) col[s] = samples[s * L + c]!;
-    col.subarray(0, sampleCount).sort();
+    // Insertion sort in place: sample counts are small, and a subarray per coordinate would allocate.
+    for (let s = 0; s < sampleCount; s++) {
+      const x = samples[s * L + c]!;
+      let j = s - 1;
+      while (j >= 0 && col[j]! > x) { col[j + 1] = col[j]!; j--; }
+      col[j + 1] = x;
+    }
     const l = q(lo), u = q(hi), v = truth[c]!;
     if (v >= l && v <= u) inside++;
     score += u - l + (v < l ? (2 / alpha) * (l - v) : 0) + (v > u ? (2 / alpha) * (v - u) : 0);
