@@ -4,7 +4,8 @@
 // walkers), on two threads. Same seed, same machine: the same weights.
 //
 // Run: npm run train:default [-- --epochs N] [--subjects N] [--seconds S] [--seed N] [--output FILE] [--json] [--quiet]
-// (--norms-only recomputes the normative coupling figures of an existing file, --spread-only its forecast spread calibration,
+// (--norms-only recomputes the normative coupling figures of an existing file, --spread-only its forecast spread calibration
+// on the held-out training subjects and the calibration cohort (src/synth/cohort.ts),
 // --readout-only its pair readouts and then its spread calibration; experiments: [--config '{"reconSteps": 10}'] [--lr 0.001] [--no-twin]; the shipped model uses none of them)
 import { statSync } from 'node:fs';
 import { dirname, join } from 'node:path';
@@ -14,10 +15,10 @@ import { progressBar } from '../src/cli/progress.js';
 import type { TrainingTake } from '../src/model/batch.js';
 import { loadModel, modelToJson, saveModel } from '../src/model/modelfile.js';
 import { calibrateSpread } from '../src/model/calibrate.js';
-import { calibrationStride, fitPair, fitReadouts, heldOutWindows, runSplit, savePair, twinOf } from '../src/model/pair-fit.js';
+import { calibrationStride, fitPair, fitReadouts, runSplit, savePair, spreadCalibrationWindows, twinOf } from '../src/model/pair-fit.js';
 import { readoutSummaryJson, type ReadoutOutcome } from '../src/model/readout-fit.js';
 import type { TrainingSummary } from '../src/model/train.js';
-import { normativeCohort, trainingCohort } from '../src/synth/cohort.js';
+import { calibrationCohort, normativeCohort, trainingCohort } from '../src/synth/cohort.js';
 import { COUPLING_NORMS_KEY, couplingNorms, type CouplingNorms } from '../src/analysis/coupling-asymmetry.js';
 import { JOINT_PROFILES_KEY } from '../src/analysis/joint-profiles.js';
 import type { CouplingModel } from '../src/model/model.js';
@@ -25,7 +26,7 @@ import { takeFactors } from '../src/analysis/factors.js';
 import { cohortTrack } from './model-cohort.js';
 
 /** The recipe of the shipped model: every figure here is stored in the model file's summary too. */
-export const DEFAULT_RECIPE = { subjects: 32, seconds: 30, epochs: 4, seed: 1, windowStride: 6, threads: 2 } as const;
+export const DEFAULT_RECIPE = { subjects: 32, seconds: 30, epochs: 4, seed: 1, windowStride: 6, threads: 2, calibrationSubjects: 16 } as const;
 
 const { values: v } = parseArgs({
   options: {
@@ -45,6 +46,10 @@ const t0 = performance.now();
 const cohort = trainingCohort(recipe.subjects, recipe.seconds);
 // Each take with its causal gait phase, so restricted labeling ties two dynamic dimensions to it.
 const takes: TrainingTake[] = cohort.map((s) => { const c = cohortTrack(s); return { track: c.track, subject: s.id, phase: c.phase }; });
+// The spread calibration subjects: the training sequence's next subjects, never trained on, so the spread
+// is calibrated on every group of the training mix (the held-out training subjects hold no variable walker).
+const calibrationTakes = (): TrainingTake[] => calibrationCohort(recipe.subjects, recipe.calibrationSubjects, recipe.seconds)
+  .map((s) => ({ track: cohortTrack(s, { phase: false }).track, subject: s.id, phase: null }));
 /** Returns the normative coupling figures under a model: the normative cohort's walkers, never trained on. */
 function cohortNorms(model: CouplingModel): CouplingNorms {
   return couplingNorms(normativeCohort().map((s) => takeFactors(model, cohortTrack(s, { phase: false }).track)));
@@ -81,14 +86,15 @@ if (v['spread-only'] || v['readout-only']) {
     console.log(readoutLine('model', r.model));
     console.log(readoutLine('twin', r.twin));
   }
-  const wins = heldOutWindows(takes, options, loaded.model, calibrationStride(loaded.training), split);
+  const extra = calibrationTakes();
+  const wins = spreadCalibrationWindows(takes, options, loaded.model, calibrationStride(loaded.training), split, extra);
   const before = { k: loaded.model.spreadScale, adapt: loaded.model.spreadAdapt };
   calibrateSpread(loaded.model, wins);
   if (twin) calibrateSpread(twin, wins);
   const extras = twin ? { ...loaded.extras, no_coupling: modelToJson(twin, (loaded.extras.no_coupling as { training?: TrainingSummary | null }).training ?? null) } : loaded.extras;
   saveModel(output, loaded.model, loaded.training, extras);
   const a = loaded.model.spreadAdapt;
-  console.log(`${output}: spread recalibrated on ${wins.length} held-out windows of ${validSubjects.length} subjects: scale ${before.k.toFixed(3)}${before.adapt ? ` (exponent ${before.adapt.exponent})` : ''} -> ${loaded.model.spreadScale.toFixed(3)}, exponent ${a ? a.exponent : 0}${a ? `, reference backcast ${a.reference.toFixed(4)} leg lengths` : ''}${twin ? `; twin ${twin.spreadScale.toFixed(3)}, exponent ${twin.spreadAdapt?.exponent ?? 0}` : ''}`);
+  console.log(`${output}: spread recalibrated on ${wins.length} windows of ${validSubjects.length} held-out and ${extra.length} calibration subjects: scale ${before.k.toFixed(3)}${before.adapt ? ` (exponent ${before.adapt.exponent})` : ''} -> ${loaded.model.spreadScale.toFixed(3)}, exponent ${a ? a.exponent : 0}${a ? `, reference backcast ${a.reference.toFixed(4)} leg lengths` : ''}${twin ? `; twin ${twin.spreadScale.toFixed(3)}, exponent ${twin.spreadAdapt?.exponent ?? 0}` : ''}`);
   process.exit(0);
 }
 const tCohort = performance.now() - t0;
@@ -96,7 +102,7 @@ const bar = progressBar('train', Boolean(v.quiet || v.json));
 let phase = 'model';
 const pair = await fitPair(takes, {
   config: v.config ? (JSON.parse(v.config) as Record<string, never>) : undefined, learningRate: v.lr ? Number(v.lr) : undefined, twin: !v['no-twin'],
-  epochs: recipe.epochs, seed: recipe.seed, windowStride: recipe.windowStride, threads: recipe.threads,
+  epochs: recipe.epochs, seed: recipe.seed, windowStride: recipe.windowStride, threads: recipe.threads, calibrationTakes: calibrationTakes(),
   onPhase: (p) => { phase = p; },
   onProgress: (p) => bar.update(p.epoch * p.stepsPerEpoch + p.step, p.epochs * p.stepsPerEpoch, `${phase} epoch ${p.epoch + 1}/${p.epochs} loss ${p.trainLoss.toFixed(3)}${Number.isFinite(p.validLoss) ? ` held-out ${p.validLoss.toFixed(3)}` : ''}`),
 });

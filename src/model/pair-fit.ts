@@ -29,11 +29,25 @@ export function runSplit(takes: readonly TrainingTake[], options: TrainOptions, 
 
 /** Returns the held-out windows (every `stride` steps, each with its full causal history) of the run's held-out takes. */
 export function heldOutWindows(takes: readonly TrainingTake[], options: TrainOptions, model: CouplingModel, stride: number, split = runSplit(takes, options, model)): Window[] {
+  return fullHistoryWindows(split.valid, model, stride);
+}
+
+/** Returns the windows of `takes` every `stride` steps that have their full causal history and future. */
+function fullHistoryWindows(takes: readonly TrainingTake[], model: CouplingModel, stride: number): Window[] {
   const c = model.config, first = c.stridePrior ? c.priorHistory : c.observe;
   const out: Window[] = [];
-  for (const t of split.valid)
+  for (const t of takes)
     for (const w of windowsOf(t.track, stride, modelWindowOptions(c))) if (w.futureSteps === c.forecast && w.endObservedStep >= first) out.push(w);
   return out;
+}
+
+/**
+ * Returns the windows the forecast spread is calibrated on: the held-out windows of the run, then those
+ * of `extra` takes (subjects never trained on, e.g. the shipped model's calibration cohort), every
+ * `stride` steps.
+ */
+export function spreadCalibrationWindows(takes: readonly TrainingTake[], options: TrainOptions, model: CouplingModel, stride: number, split: HeldOutSplit, extra: readonly TrainingTake[] = []): Window[] {
+  return [...heldOutWindows(takes, options, model, stride, split), ...fullHistoryWindows(extra, model, stride)];
 }
 
 /** Returns the steps between calibration windows: every 15 (0.5 s) of held-out subjects, every 5 of a take's short tail. */
@@ -49,6 +63,8 @@ export type FitPairOptions = TrainOptions & {
    * are the same for any thread count (train.ts reduces shard gradients in a fixed order).
    */
   threads?: number;
+  /** Takes of subjects never trained on whose windows join the held-out ones for the spread calibration. */
+  calibrationTakes?: readonly TrainingTake[];
   onPhase?: (phase: 'model' | 'twin' | 'readout' | 'calibrate') => void;
   onProgress?: (p: TrainProgress) => void;
 };
@@ -69,7 +85,7 @@ export async function fitPair(takes: readonly TrainingTake[], options: FitPairOp
   options.onPhase?.('readout');
   const readout = fitReadouts(model, twin, split, options.windowStride ?? 3, calibrationStride(summary));
   options.onPhase?.('calibrate');
-  const wins = heldOutWindows(takes, options, model, calibrationStride(summary), split);
+  const wins = spreadCalibrationWindows(takes, options, model, calibrationStride(summary), split, options.calibrationTakes);
   const spread = { model: wins.length ? calibrateSpread(model, wins) : model.spreadScale, twin: twin && wins.length ? calibrateSpread(twin, wins) : null };
   return { model, summary, twin, twinSummary, spread, readout };
 }

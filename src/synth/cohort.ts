@@ -1,6 +1,8 @@
-// Fixed synthetic cohorts for the coupling model: the training cohort the default model is fitted on and
-// the held-out cohort `npm run eval:forecast` scores it on. Both are lists of walker options derived from
-// fixed seeds (training 20000 + i, held-out 70000 + i: disjoint), so they regenerate exactly. Every
+// Fixed synthetic cohorts for the coupling model: the training cohort the default model is fitted on, the
+// subjects its forecast spread is also calibrated on, and the held-out cohort `npm run eval:forecast`
+// scores it on. All are lists of walker options derived from fixed seeds (training 20000 + i, the
+// calibration subjects the seeds after the training ones, held-out 70000 + i: disjoint), so they
+// regenerate exactly. Every
 // subject is invented; the spreads of height, speed and cadence are typical adult walking ranges (common
 // practice), the impairments the walker's own.
 import type { SideImpairment, SynthOptions } from './options.js';
@@ -53,8 +55,24 @@ function round3(x: number): number {
  * what the model learns on straight walking.
  */
 export function trainingCohort(count = 32, duration = 30): CohortSubject[] {
+  return trainingSequence(0, count, duration, 'TR');
+}
+
+/**
+ * Returns the spread calibration cohort of a model trained on the first `after` training subjects: the
+ * next `count` subjects of the training cohort's own sequence (same recipe and group mix, seeds after
+ * the training seeds, never trained on), ids CA…. The every-fifth held-out training subjects the
+ * training stops on can miss a group (the shipped model's six hold no highly variable walker); these
+ * subjects join them when the forecast spread is calibrated.
+ */
+export function calibrationCohort(after = 32, count = 16, duration = 30): CohortSubject[] {
+  return trainingSequence(after, count, duration, 'CA');
+}
+
+/** Returns subjects `from` … `from + count − 1` of the training cohort's sequence, ids `prefix` and their 1-based number in the returned list. */
+function trainingSequence(from: number, count: number, duration: number, prefix: string): CohortSubject[] {
   const out: CohortSubject[] = [];
-  for (let i = 0; i < count; i++) {
+  for (let i = from; i < from + count; i++) {
     const seed = 20000 + i;
     const o = subjectOptions(seed, duration, 60);
     let group: CohortGroup = 'normal';
@@ -70,7 +88,7 @@ export function trainingCohort(count = 32, duration = 30): CohortSubject[] {
     o.naming = NAMINGS[i % NAMINGS.length]!;
     o.units = (['cm', 'm', 'mm', 'in'] as const)[i % 4]!;
     o.upAxis = i % 6 === 4 ? 'Z' : 'Y';
-    out.push({ id: `TR${String(i + 1).padStart(3, '0')}`, group, options: o });
+    out.push({ id: `${prefix}${String(i - from + 1).padStart(3, '0')}`, group, options: o });
   }
   return out;
 }

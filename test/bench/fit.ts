@@ -1,6 +1,7 @@
 // Bench section: `jointloom fit` on one synthesized 30-s take from scratch (a fictional walker, 120 Hz),
 // the built CLI as a child process, wall time from start to the model file written: import, the gait
-// phase for restricted labeling, the model, its retrained no-coupling twin and the spread calibration.
+// phase for restricted labeling, the model, its retrained no-coupling twin, their pair readouts and the
+// spread calibration.
 // With one subject the take's last quarter is held out in time for early stopping (src/model/split.ts).
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
@@ -11,7 +12,16 @@ import { synthesizeTake } from '../../src/synth/index.js';
 import { buildCli, builtCli, repo } from './built-cli.js';
 import { ratio, type Section } from './report.js';
 
-interface FitSummary { epochs_run: number; best_epoch: number; steps: number; ms_per_step: number; twin: { best_epoch: number } | null }
+interface FitSummary {
+  epochs_run: number; best_epoch: number; steps: number; ms_per_step: number; twin: { best_epoch: number } | null;
+  readout: { model: { kept: boolean; dropped: string | null; valid_knot_error_before: number | null; valid_knot_error_after: number | null } | null };
+}
+
+/** Returns the row on the model's pair readout: the held-out knot error after it, or why none was kept. */
+function readoutRow(r: FitSummary['readout']['model']): Section['rows'][number] {
+  if (!r?.kept) return { name: 'pair readout', value: NaN, unit: '', note: `none kept${r?.dropped ? `: ${r.dropped}` : ''}` };
+  return { name: 'pair readout, held-out knot error', value: 1000 * (r.valid_knot_error_after ?? NaN), unit: 'mLL', note: `milli-leg-lengths; ${(1000 * (r.valid_knot_error_before ?? NaN)).toFixed(1)} before it` };
+}
 
 /** Returns the single-take fit section (one run: a fit is long, and its time is the figure itself). */
 export function runFitBench(): Section {
@@ -30,11 +40,12 @@ export function runFitBench(): Section {
     return {
       title: 'fitting one 30-s take from scratch (jointloom fit, 2 threads)',
       rows: [
-        { name: 'fit, wall time', value: seconds, unit: 's', note: 'model, no-coupling twin and spread calibration; one run' },
+        { name: 'fit, wall time', value: seconds, unit: 's', note: 'model, no-coupling twin, pair readouts and spread calibration; one run' },
         { name: 'model epochs run', value: s.epochs_run, unit: '', note: `best ${s.best_epoch + 1}; ${s.steps} steps of 16 windows` },
         { name: 'ms per step', value: s.ms_per_step, unit: 'ms' },
         { name: 'held-out error, untrained', value: mm[0] ?? NaN, unit: 'mm', note: 'the stride prior alone; the take\'s last quarter, mean over the forecast second' },
         { name: 'held-out error, best epoch', value: best ?? NaN, unit: 'mm' },
+        readoutRow(s.readout.model),
       ],
       ratios: [ratio('fit one 30-s take from scratch (s)', seconds, '<=', 90, 'issue target')],
       notes: ['the built CLI (dist/); fitting the default cohort (npm run train:default) reports its own time'],

@@ -3,11 +3,12 @@
 // joint-profile development cohort holds the joint-range kinds in both arms and the side-only kinds by
 // the walker, on both sides, with ids of its own.
 import { describe, expect, it } from 'vitest';
-import { asymmetryCohort, heldOutCohort, JOINT_RANGE_KINDS, jointOfKind, jointProfileCohort, jointProfileControls, normativeCohort, SIDE_ONLY_KINDS, trainingCohort } from '../../src/synth/cohort.js';
+import { asymmetryCohort, calibrationCohort, heldOutCohort, JOINT_RANGE_KINDS, jointOfKind, jointProfileCohort, jointProfileControls, normativeCohort, SIDE_ONLY_KINDS, trainingCohort } from '../../src/synth/cohort.js';
 
 describe('cohorts', () => {
   const seeds = {
     training: trainingCohort().map((s) => s.options.seed),
+    calibration: calibrationCohort().map((s) => s.options.seed),
     normative: normativeCohort().map((s) => s.options.seed),
     heldOut: heldOutCohort().map((s) => s.options.seed),
     validation: asymmetryCohort().map((s) => s.options.seed),
@@ -23,6 +24,14 @@ describe('cohorts', () => {
         const set = new Set(xs);
         expect(ys.filter((y) => set.has(y)), `${a} and ${b}`).toEqual([]);
       }
+  });
+
+  it('continue the training sequence for the spread calibration subjects, every group of its mix among them', () => {
+    const cal = calibrationCohort(32, 16), longer = trainingCohort(48);
+    expect(cal.map((s) => s.id)).toEqual(Array.from({ length: 16 }, (_, i) => `CA${String(i + 1).padStart(3, '0')}`));
+    // The same walkers as training subjects 33-48 would be, under their own ids.
+    expect(cal.map((s) => [s.group, s.options])).toEqual(longer.slice(32).map((s) => [s.group, s.options]));
+    expect(new Set(cal.map((s) => s.group))).toEqual(new Set(['normal', 'impaired', 'variable']));
   });
 
   it('give the joint-profile development cohort 8 subjects per kind and stratum in each arm', () => {
