@@ -66,12 +66,11 @@ if (v['norms-only']) {
 }
 /** Returns one line on a readout fit: its ridge weight and the held-out knot error before and after (leg lengths: the cohort's leg lengths differ). */
 function readoutLine(name: string, o: ReadoutOutcome | null): string {
-  if (!o) return `${name}: no readout (no stride prior)`;
-  const f = o.fit;
-  if (!f) return `${name}: no readout (${o.dropped})`;
-  const best = f.validError.find((e) => e.lambda === f.readout.lambda);
-  const kept = o.dropped ? `dropped: ${o.dropped}` : `lambda ${f.readout.lambda}`;
-  return `${name} readout (${f.readout.senders}): ${kept}; ${f.trainWindows} training windows; held-out knot error ${(1000 * f.validNone).toFixed(1)} -> ${best ? (1000 * best.error).toFixed(1) : '-'} milli-leg-lengths on ${f.validWindows} windows (${f.validError.map((e) => `${e.lambda}: ${(1000 * e.error).toFixed(1)}`).join(', ')})`;
+  const r = readoutSummaryJson(o);
+  if (!r) return `${name}: no readout (no stride prior)`;
+  const milli = (x: number | null) => (x === null ? '-' : (1000 * x).toFixed(1));
+  const kept = r.kept ? `lambda ${r.lambda}` : `none kept: ${r.dropped}`;
+  return `${name} readout (${r.senders ?? '-'}): ${kept}; ${r.train_windows} training windows; held-out knot error ${milli(r.valid_knot_error_before)} -> ${milli(r.valid_knot_error_after)} milli-leg-lengths on ${r.valid_windows} windows (${r.valid_knot_error.map((e) => `${e.lambda}: ${milli(e.error)}`).join(', ')})`;
 }
 if (v['spread-only'] || v['readout-only']) {
   // Refit the pair readouts (with --readout-only) and recalibrate the forecast spread of an existing model file and its

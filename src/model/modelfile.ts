@@ -35,8 +35,11 @@ export interface ModelFileJson {
   /** Extra data other layers store with the model (e.g. normative factor statistics); plain JSON. */
   extras: Record<string, unknown>;
   layout: { name: string; shape: number[] }[];
-  weights: { dtype: 'float32'; count: number; sha256: string; base64: string };
+  weights: Float32Block;
 }
+
+/** Values stored as base64 little-endian Float32 with their SHA-256. */
+export interface Float32Block { dtype: 'float32'; count: number; sha256: string; base64: string }
 
 /** The JSON form of a pair readout: its layout, then feature means, feature SDs, target means and weights as one Float32 block. */
 export interface ReadoutJson {
@@ -47,7 +50,7 @@ export interface ReadoutJson {
   lags: number[];
   backcast: number;
   backcastSteps: number[];
-  values: { dtype: 'float32'; count: number; sha256: string; base64: string };
+  values: Float32Block;
 }
 
 /** Returns the number of weights of a readout of `senders` under a configuration. */
@@ -56,11 +59,23 @@ function readoutWeightCount(c: ModelConfig, senders: PairReadout['senders']): nu
   return senders === 'all' ? c.nodes * per * c.nodes * out : c.nodes * per * out;
 }
 
-function float32Block(values: Float64Array): { dtype: 'float32'; count: number; sha256: string; base64: string } {
+/** Returns values as a base64 little-endian Float32 block with its SHA-256 (the weights and the readout values). */
+function float32Block(values: ArrayLike<number>): Float32Block {
   const f32 = Float32Array.from(values);
   const bytes = Buffer.from(f32.buffer, f32.byteOffset, f32.byteLength);
   if (!littleEndian()) swap32(bytes);
   return { dtype: 'float32', count: f32.length, sha256: createHash('sha256').update(bytes).digest('hex'), base64: bytes.toString('base64') };
+}
+
+/** Returns the values of a Float32 block of `count` values checked by length, checksum and finiteness; `bad` throws, naming `what` (plural) and `one`. */
+function readFloat32Block(b: Float32Block, count: number, what: string, one: string, bad: (why: string) => never): Float32Array {
+  const bytes = Buffer.from(b.base64, 'base64');
+  if (bytes.length !== count * 4) bad(`the ${what} hold ${bytes.length} bytes, ${count * 4} expected (truncated?)`);
+  if (createHash('sha256').update(bytes).digest('hex') !== b.sha256) bad(`the ${what} do not match their SHA-256 checksum (the file is corrupt)`);
+  if (!littleEndian()) swap32(bytes);
+  const f32 = new Float32Array(bytes.buffer.slice(bytes.byteOffset, bytes.byteOffset + bytes.length));
+  for (let i = 0; i < f32.length; i++) if (!Number.isFinite(f32[i]!)) bad(`${one} ${i} is not a finite number`);
+  return f32;
 }
 
 function readoutToJson(r: PairReadout): ReadoutJson {
@@ -88,12 +103,7 @@ function readoutFromJson(v: unknown, c: ModelConfig, bad: (why: string) => never
   const b = r.values;
   if (!b || b.dtype !== 'float32' || typeof b.base64 !== 'string' || typeof b.sha256 !== 'string' || b.count !== 2 * d + m + w)
     bad(`the readout values block is missing or malformed (${2 * d + m + w} values expected)`);
-  const bytes = Buffer.from(b!.base64, 'base64');
-  if (bytes.length !== b!.count * 4) bad(`the readout values hold ${bytes.length} bytes, ${b!.count * 4} expected (truncated?)`);
-  if (createHash('sha256').update(bytes).digest('hex') !== b!.sha256) bad('the readout values do not match their SHA-256 checksum (the file is corrupt)');
-  if (!littleEndian()) swap32(bytes);
-  const f = Float64Array.from(new Float32Array(bytes.buffer.slice(bytes.byteOffset, bytes.byteOffset + bytes.length)));
-  for (let i = 0; i < f.length; i++) if (!Number.isFinite(f[i]!)) bad(`readout value ${i} is not a finite number`);
+  const f = Float64Array.from(readFloat32Block(b!, b!.count, 'readout values', 'readout value', bad));
   const featureSd = f.slice(d, 2 * d);
   if (featureSd.some((x) => !(x > 0))) bad('a readout feature SD is not positive');
   return { senders: r.senders!, lambda: r.lambda!, knots: readoutKnots(c), priorSteps: readoutPriorSteps(c), featureMean: f.slice(0, d), featureSd, targetMean: f.slice(2 * d, 2 * d + m), weights: f.slice(2 * d + m) };
@@ -101,16 +111,12 @@ function readoutFromJson(v: unknown, c: ModelConfig, bad: (why: string) => never
 
 /** Returns the model as a model-file JSON value. */
 export function modelToJson(model: CouplingModel, training: TrainingSummary | null = null, extras: Record<string, unknown> = {}): ModelFileJson {
-  const v = model.store.valueView();
-  const f32 = v instanceof Float32Array ? Float32Array.from(v) : Float32Array.from(v);
-  const bytes = Buffer.from(f32.buffer, f32.byteOffset, f32.byteLength);
-  if (!littleEndian()) swap32(bytes);
   return {
     format: MODEL_FORMAT, version: MODEL_VERSION, nodes: [...model.stats.nodes], config: { ...model.config },
     stats: statsToJson(model.stats), spreadScale: model.spreadScale, spreadAdapt: model.spreadAdapt,
     ...(model.readout ? { readout: readoutToJson(model.readout) } : {}), training, extras,
     layout: model.store.params.map((p) => ({ name: p.name, shape: [...p.shape] })),
-    weights: { dtype: 'float32', count: f32.length, sha256: createHash('sha256').update(bytes).digest('hex'), base64: bytes.toString('base64') },
+    weights: float32Block(model.store.valueView()),
   };
 }
 
@@ -171,14 +177,7 @@ export function modelFromJson(value: unknown, source: string): LoadedModel {
   if (!Array.isArray(v.layout) || v.layout.length !== layout.length || v.layout.some((p, i) => `${p?.name}[${Array.isArray(p?.shape) ? p.shape.join('x') : ''}]` !== layout[i]))
     bad('its parameter layout does not match the layout of its configuration');
   if (w.count !== size) bad(`it holds ${w.count} weights, its configuration needs ${size}`);
-  const bytes = Buffer.from(w.base64, 'base64');
-  if (bytes.length !== size * 4) bad(`the weights hold ${bytes.length} bytes, ${size * 4} expected (truncated?)`);
-  const sum = createHash('sha256').update(bytes).digest('hex');
-  if (sum !== w.sha256) bad('the weights do not match their SHA-256 checksum (the file is corrupt)');
-  if (!littleEndian()) swap32(bytes);
-  const f32 = new Float32Array(bytes.buffer.slice(bytes.byteOffset, bytes.byteOffset + bytes.length));
-  for (let i = 0; i < f32.length; i++) if (!Number.isFinite(f32[i]!)) bad(`weight ${i} is not a finite number`);
-  model.store.valueView().set(f32 as never);
+  model.store.valueView().set(readFloat32Block(w, size, 'weights', 'weight', bad) as never);
   const spread = v.spreadScale;
   if (typeof spread !== 'number' || !(spread > 0) || !Number.isFinite(spread)) bad('spreadScale must be a finite positive number');
   model.spreadScale = spread!;

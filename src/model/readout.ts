@@ -76,14 +76,14 @@ export function readoutHistory(c: ModelConfig): number {
 }
 
 /** Work arrays of the readout for one configuration. */
-export interface ReadoutScratch { positions: Float64Array; prior: Float64Array; back: Float64Array; features: Float64Array; knots: Float64Array }
+export interface ReadoutScratch { positions: Float64Array; prior: Float64Array; back: Float64Array; features: Float64Array; standardised: Float64Array; knots: Float64Array }
 
 /** Returns work arrays for readoutFeatures and readoutCorrection. */
 export function readoutScratch(c: ModelConfig): ReadoutScratch {
   const N = c.nodes;
   return {
     positions: new Float64Array(readoutHistory(c) * N * 3), prior: new Float64Array(c.forecast * N * 3), back: new Float64Array(READOUT_BACKCAST * N * 3),
-    features: new Float64Array(N * readoutFeaturesPerNode(c)), knots: new Float64Array(N * readoutKnots(c).length * 3),
+    features: new Float64Array(N * readoutFeaturesPerNode(c)), standardised: new Float64Array(N * readoutFeaturesPerNode(c)), knots: new Float64Array(N * readoutKnots(c).length * 3),
   };
 }
 
@@ -111,9 +111,9 @@ export function readoutFeatures(c: ModelConfig, history: ArrayLike<number>, hist
   return f;
 }
 
-/** Writes the readout's correction at the knots (nodes × knots × 3) of standardised-ready features into out. */
-export function readoutKnotValues(r: PairReadout, features: Float64Array, nodes: number, out: Float64Array): Float64Array {
-  const per = features.length / nodes, K3 = r.knots.length * 3, z = new Float64Array(features.length);
+/** Writes the readout's correction at the knots (nodes × knots × 3) of raw features into out (`z`: scratch for the standardised features). */
+export function readoutKnotValues(r: PairReadout, features: Float64Array, nodes: number, out: Float64Array, z: Float64Array = new Float64Array(features.length)): Float64Array {
+  const per = features.length / nodes, K3 = r.knots.length * 3;
   for (let j = 0; j < z.length; j++) z[j] = (features[j]! - r.featureMean[j]!) / r.featureSd[j]!;
   out.set(r.targetMean);
   if (r.senders === 'all') {
@@ -176,11 +176,11 @@ export interface ReadoutFit {
 /** Returns the mean over windows, nodes and knots of the distance between target and prediction (null: no correction). */
 function knotError(r: PairReadout | null, data: ReadoutData, nodes: number): number {
   if (data.features.length === 0) return NaN;
-  const pred = new Float64Array(data.targets[0]!.length);
+  const pred = new Float64Array(data.targets[0]!.length), z = new Float64Array(data.features[0]!.length);
   let sum = 0;
   data.features.forEach((f, i) => {
     const t = data.targets[i]!;
-    if (r) readoutKnotValues(r, f, nodes, pred); else pred.fill(0);
+    if (r) readoutKnotValues(r, f, nodes, pred, z); else pred.fill(0);
     for (let o = 0; o < t.length; o += 3) sum += Math.hypot(t[o]! - pred[o]!, t[o + 1]! - pred[o + 1]!, t[o + 2]! - pred[o + 2]!);
   });
   return (3 * sum) / (data.features.length * pred.length);
@@ -254,6 +254,6 @@ export function fitReadout(c: ModelConfig, senders: ReadoutSenders, train: Reado
 export function readoutCorrection(c: ModelConfig, r: PairReadout, history: ArrayLike<number>, historySteps: number, scratch: ReadoutScratch, out: Float64Array): Float64Array | null {
   const f = readoutFeatures(c, history, historySteps, scratch);
   if (!f) return null;
-  readoutKnotValues(r, f, c.nodes, scratch.knots);
+  readoutKnotValues(r, f, c.nodes, scratch.knots, scratch.standardised);
   return spreadKnots(r.knots, scratch.knots, c.nodes, c.forecast, out);
 }
