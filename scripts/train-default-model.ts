@@ -14,8 +14,8 @@ import { parseArgs } from 'node:util';
 import { progressBar } from '../src/cli/progress.js';
 import type { TrainingTake } from '../src/model/batch.js';
 import { loadModel, modelToJson, saveModel } from '../src/model/modelfile.js';
-import { calibrateSpread } from '../src/model/calibrate.js';
-import { calibrationStride, fitPair, fitReadouts, runSplit, savePair, spreadCalibrationWindows, twinOf } from '../src/model/pair-fit.js';
+import { fitPair, postFitInput, runSplit, savePair, twinOf } from '../src/model/pair-fit.js';
+import { postFit } from '../src/model/post-fit.js';
 import { readoutSummaryJson, type ReadoutOutcome } from '../src/model/readout-fit.js';
 import type { TrainingSummary } from '../src/model/train.js';
 import { calibrationCohort, normativeCohort, trainingCohort } from '../src/synth/cohort.js';
@@ -70,7 +70,7 @@ function readoutLine(name: string, o: ReadoutOutcome | null): string {
   if (!r) return `${name}: no readout (no stride prior)`;
   const milli = (x: number | null) => (x === null ? '-' : (1000 * x).toFixed(1));
   const kept = r.kept ? `lambda ${r.lambda}` : `none kept: ${r.dropped}`;
-  return `${name} readout (${r.senders ?? '-'}): ${kept}; ${r.train_windows} training windows; held-out knot error ${milli(r.valid_knot_error_before)} -> ${milli(r.valid_knot_error_after)} milli-leg-lengths on ${r.valid_windows} windows (${r.valid_knot_error.map((e) => `${e.lambda}: ${milli(e.error)}`).join(', ')})`;
+  return `${name} readout (${r.senders ?? '-'}): ${kept}; ${r.train_windows} training windows; held-out knot error ${milli(r.valid_knot_error_clean?.before ?? null)} -> ${milli(r.valid_knot_error_clean?.after ?? null)} milli-leg-lengths on ${r.valid_windows} windows (${r.valid_knot_error.map((e) => `${e.lambda}: ${milli(e.error)}`).join(', ')}); with mild capture jitter ${milli(r.valid_knot_error_mild?.before ?? null)} -> ${milli(r.valid_knot_error_mild?.after ?? null)}, with full ${milli(r.valid_knot_error_jittered?.before ?? null)} -> ${milli(r.valid_knot_error_jittered?.after ?? null)} (standard readout alone ${milli(r.valid_knot_error_jittered_clean_only)}); robust readout ${r.jitter_threshold !== null ? `lambda ${r.robust_lambda} above a jitter of ${milli(r.jitter_threshold)}` : 'not used'} (${r.robust_valid_knot_error.map((e) => `${e.lambda}: ${milli(e.error)}`).join(', ')})`;
 }
 if (v['spread-only'] || v['readout-only']) {
   // Refit the pair readouts (with --readout-only) and recalibrate the forecast spread of an existing model file and its
@@ -80,33 +80,33 @@ if (v['spread-only'] || v['readout-only']) {
   if (!validSubjects?.length) throw new Error(`${output}: the model file names no held-out subjects to calibrate on`);
   const options = { validSubjects, windowStride: recipe.windowStride };
   const split = runSplit(takes, options, loaded.model);
-  if (v['readout-only']) {
-    const r = fitReadouts(loaded.model, twin, split, recipe.windowStride, calibrationStride(loaded.training));
-    console.log(readoutLine('model', r.model));
-    console.log(readoutLine('twin', r.twin));
-  }
   const extra = calibrationTakes();
-  const wins = spreadCalibrationWindows(takes, options, loaded.model, calibrationStride(loaded.training), split, extra);
   const before = { k: loaded.model.spreadScale, adapt: loaded.model.spreadAdapt };
-  calibrateSpread(loaded.model, wins);
-  if (twin) calibrateSpread(twin, wins);
+  const post = await postFit(loaded.model, twin, postFitInput(split, options, loaded.training, extra, Boolean(v['readout-only'])), recipe.threads);
+  if (v['readout-only']) {
+    console.log(readoutLine('model', post.model.readout));
+    console.log(readoutLine('twin', post.twin?.readout ?? null));
+  }
+  const windows = post.model.windows;
   const extras = twin ? { ...loaded.extras, no_coupling: modelToJson(twin, (loaded.extras.no_coupling as { training?: TrainingSummary | null }).training ?? null) } : loaded.extras;
   saveModel(output, loaded.model, loaded.training, extras);
   const a = loaded.model.spreadAdapt;
-  console.log(`${output}: spread recalibrated on ${wins.length} windows of ${validSubjects.length} held-out and ${extra.length} calibration subjects: scale ${before.k.toFixed(3)}${before.adapt ? ` (exponent ${before.adapt.exponent})` : ''} -> ${loaded.model.spreadScale.toFixed(3)}, exponent ${a ? a.exponent : 0}${a ? `, reference backcast ${a.reference.toFixed(4)} leg lengths` : ''}${twin ? `; twin ${twin.spreadScale.toFixed(3)}, exponent ${twin.spreadAdapt?.exponent ?? 0}` : ''}`);
+  console.log(`${output}: spread recalibrated on ${windows} windows of ${validSubjects.length} held-out and ${extra.length} calibration subjects: scale ${before.k.toFixed(3)}${before.adapt ? ` (exponent ${before.adapt.exponent})` : ''} -> ${loaded.model.spreadScale.toFixed(3)}, exponent ${a ? a.exponent : 0}${a ? `, reference backcast ${a.reference.toFixed(4)} leg lengths` : ''}${twin ? `; twin ${twin.spreadScale.toFixed(3)}, exponent ${twin.spreadAdapt?.exponent ?? 0}` : ''}`);
   process.exit(0);
 }
 const tCohort = performance.now() - t0;
 const bar = progressBar('train', Boolean(v.quiet || v.json));
 let phase = 'model';
+const phaseStart: Record<string, number> = {};
 const pair = await fitPair(takes, {
   config: v.config ? (JSON.parse(v.config) as Record<string, never>) : undefined, learningRate: v.lr ? Number(v.lr) : undefined, twin: !v['no-twin'],
   epochs: recipe.epochs, seed: recipe.seed, windowStride: recipe.windowStride, threads: recipe.threads, calibrationTakes: calibrationTakes(),
-  onPhase: (p) => { phase = p; },
+  onPhase: (p) => { phase = p; phaseStart[p] = performance.now(); },
   onProgress: (p) => bar.update(p.epoch * p.stepsPerEpoch + p.step, p.epochs * p.stepsPerEpoch, `${phase} epoch ${p.epoch + 1}/${p.epochs} loss ${p.trainLoss.toFixed(3)}${Number.isFinite(p.validLoss) ? ` held-out ${p.validLoss.toFixed(3)}` : ''}`),
 });
 bar.stop();
 // Normative coupling figures from the normative cohort (48 walkers of their own seeds, never trained on).
+const tNorms = performance.now();
 const norms = cohortNorms(pair.model);
 savePair(output, pair, { [COUPLING_NORMS_KEY]: norms });
 const seconds = (performance.now() - t0) / 1000;
@@ -114,6 +114,9 @@ const s = pair.summary;
 const report = {
   output, bytes: statSync(output).size, recipe, subjects: cohort.length, groups: Object.fromEntries(['normal', 'impaired', 'variable'].map((g) => [g, cohort.filter((c) => c.group === g).length])),
   cohort_s: Math.round(tCohort / 100) / 10, total_s: Math.round(seconds * 10) / 10,
+  // Wall time of each phase: training the model and the twin, their readouts and spread calibration, the normative figures.
+  phase_s: Object.fromEntries([['model', phaseStart.model, phaseStart.twin ?? phaseStart['post-fit']], ['twin', phaseStart.twin, phaseStart['post-fit']], ['post-fit', phaseStart['post-fit'], tNorms], ['norms', tNorms, performance.now()]]
+    .filter(([, a, b]) => a !== undefined && b !== undefined).map(([k, a, b]) => [k, Math.round(((b as number) - (a as number)) / 100) / 10])),
   model: { epochs_run: s.epochs, best_epoch: s.bestEpoch + 1, steps: s.steps, ms_per_step: Math.round(s.msPerStep), valid_loss: s.best?.total ?? null, valid_forecast_mm: s.validForecastMm.map((x) => Math.round(x * 10) / 10), kl_static_per_dim: s.best?.klStaticPerDim ?? null, kl_dynamic_per_dim: s.best?.klDynamicPerDim ?? null },
   twin: pair.twinSummary ? { epochs_run: pair.twinSummary.epochs, best_epoch: pair.twinSummary.bestEpoch + 1, ms_per_step: Math.round(pair.twinSummary.msPerStep), valid_forecast_mm: pair.twinSummary.validForecastMm.map((x) => Math.round(x * 10) / 10) } : null,
   spread: pair.spread,
@@ -129,6 +132,6 @@ else {
   console.log(`  ${readoutLine('model', pair.readout.model)}`);
   console.log(`  ${readoutLine('twin', pair.readout.twin)}`);
   console.log(`  normative coupling figures from ${norms.subjects} normal walkers: control take scores median ${norms.controlScoreP50.toFixed(2)}, 90th percentile ${norms.controlScoreP90.toFixed(2)}`);
-  console.log(`  whole fit ${report.total_s} s (cohort synthesis ${report.cohort_s} s)`);
+  console.log(`  whole fit ${report.total_s} s (cohort synthesis ${report.cohort_s} s; ${Object.entries(report.phase_s).map(([k, x]) => `${k} ${x} s`).join(', ')})`);
   console.log('  joint discriminant: none yet for these weights; run npm run fit:joint-profiles');
 }

@@ -45,7 +45,7 @@ export function register(program: Command): void {
     .requiredOption('-o, --output <file>', 'model file to write')
     .option('--epochs <n>', 'most epochs', numberOption(1, 10_000, true), 20)
     .option('--seed <n>', 'seed: same seed, same machine, same weights', numberOption(0, 2 ** 31 - 1, true), 1)
-    .option('--threads <n>', 'threads for the training steps (1 or 2; the weights do not depend on it)', numberOption(1, 2, true), 2)
+    .option('--threads <n>', "threads for the training steps and, after them, the twin's readout and spread calibration (1 or 2; the results do not depend on it)", numberOption(1, 2, true), 2)
     .option('--no-twin', 'skip the no-coupling twin (forecast then reports no no_coupling figures)')
     .option('--no-match-pairing', 'ablation: windows drawn in pairs from one take no longer share their static factors')
     .option('--no-restricted-labeling', 'ablation: no dynamic dimensions tied to the gait phase')
@@ -84,7 +84,7 @@ export function register(program: Command): void {
       readout: { model: readoutSummaryJson(pair.readout.model), twin: readoutSummaryJson(pair.readout.twin) },
     };
     const r = summary.readout.model, milli = (x: number | null) => (x === null ? '-' : (1000 * x).toFixed(1));
-    const readoutText = !r ? '' : r.kept ? `; pair readout kept (held-out knot error ${milli(r.valid_knot_error_before)} -> ${milli(r.valid_knot_error_after)} milli-leg-lengths)` : `; no pair readout (${r.dropped})`;
+    const readoutText = !r ? '' : r.kept ? `; pair readout kept (held-out knot error ${milli(r.valid_knot_error_clean?.before ?? null)} -> ${milli(r.valid_knot_error_clean?.after ?? null)} milli-leg-lengths; with capture jitter ${milli(r.valid_knot_error_jittered?.before ?? null)} -> ${milli(r.valid_knot_error_jittered?.after ?? null)}${r.jitter_threshold !== null ? `, the robust readout above ${milli(r.jitter_threshold)}` : ', no robust readout'})` : `; no pair readout (${r.dropped})`;
     if (flags.json) emit(JSON.stringify(summary, null, 2));
     else emit(`wrote ${flags.output}: ${files.length} takes of ${summary.subjects} subjects, ${s.epochs} epochs (best ${s.bestEpoch + 1}), held-out loss ${summary.valid_loss?.toFixed(4) ?? '-'}, ${s.msPerStep.toFixed(0)} ms a step${pair.twin ? '; no-coupling twin trained on the same budget' : ''}${readoutText}`);
   });

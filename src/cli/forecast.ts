@@ -44,6 +44,8 @@ function pointJson(p: ForecastPoint, track: Track, withPredicted: boolean): Reco
     mpjpe_mm: mpjpe,
     coverage_90: p.coverage_90 === null ? null : Math.round(p.coverage_90 * 1000) / 1000,
     surprise: p.surprise === null ? null : Math.round(p.surprise * 1000) / 1000,
+    readout: p.result.readout,
+    capture_jitter_mll: p.result.captureJitter === null ? null : r1(1000 * p.result.captureJitter),
   };
   if (withPredicted) {
     const r = p.result, N = r.nodeCount;
@@ -114,7 +116,7 @@ export function register(program: Command): void {
         }
       } finally { bar.stop(); }
       const flagsOut = flagSurprises(points.map((p) => p.surprise));
-      const timeline = points.map((p, i) => ({ time_s: Math.round(p.time_s * 1000) / 1000, surprise: p.surprise === null ? null : Math.round(p.surprise * 1000) / 1000, mpjpe_1s_mm: p.mpjpe_mm ? r1(p.mpjpe_mm.model[2]!) : null, irregular: flagsOut[i] }));
+      const timeline = points.map((p, i) => ({ time_s: Math.round(p.time_s * 1000) / 1000, surprise: p.surprise === null ? null : Math.round(p.surprise * 1000) / 1000, mpjpe_1s_mm: p.mpjpe_mm ? r1(p.mpjpe_mm.model[2]!) : null, irregular: flagsOut[i], readout: p.result.readout }));
       const irregular = timeline.filter((t) => t.irregular).map((t) => t.time_s);
       const episodes = irregularEpisodes(timeline);
       if (flags.csv) writeFileAtomic(flags.csv, ['time_s,surprise,mpjpe_1s_mm,irregular', ...timeline.map((t) => `${t.time_s},${t.surprise ?? ''},${t.mpjpe_1s_mm ?? ''},${t.irregular ? 1 : 0}`)].join('\n') + '\n');
@@ -122,6 +124,8 @@ export function register(program: Command): void {
       else {
         const lines = [`${path}: ${points.length} forecasts every ${flags.every} s with ${modelPath}`, '  time s   surprise   1-s error mm   '];
         for (const t of timeline) lines.push(`  ${t.time_s.toFixed(2).padStart(6)}   ${(t.surprise ?? NaN).toFixed(2).padStart(8)}   ${String(t.mpjpe_1s_mm ?? '-').padStart(12)}   ${t.irregular ? 'irregular' : ''}`);
+        const robust = timeline.filter((t) => t.readout === 'jitter-robust').length;
+        if (robust) lines.push(`  noisy capture: the jitter-robust pair readout corrected ${robust} of ${timeline.length} forecasts`);
         lines.push(episodes.length ? `  irregular motion to review near ${episodes.map((e) => episodeSpan(e, 2)).join(', ')}` : '  no irregular step found');
         emit(lines.join('\n'));
       }
@@ -144,6 +148,7 @@ export function register(program: Command): void {
         }
         lines.push(`  90 % band covers ${(100 * p.coverage_90!).toFixed(1)} % of the recorded future positions`);
       }
+      if (p.result.readout === 'jitter-robust') lines.push(`  noisy capture: frame-to-frame jitter ${(1000 * p.result.captureJitter!).toFixed(1)} milli-leg-lengths, so the jitter-robust pair readout corrected this forecast`);
       emit(lines.join('\n'));
     }
   });

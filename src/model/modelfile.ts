@@ -51,6 +51,8 @@ export interface ReadoutJson {
   backcast: number;
   backcastSteps: number[];
   values: Float32Block;
+  /** The jitter switch: the measured capture jitter above which the robust readout (same layout and senders) corrects a window. */
+  jitter?: { threshold: number; readout: ReadoutJson } | null;
 }
 
 /** Returns the number of weights of a readout of `senders` under a configuration. */
@@ -87,6 +89,7 @@ function readoutToJson(r: PairReadout): ReadoutJson {
   return {
     senders: r.senders, lambda: r.lambda, knots: [...r.knots], priorSteps: [...r.priorSteps], lags: [...READOUT_LAGS],
     backcast: READOUT_BACKCAST, backcastSteps: [...READOUT_BACKCAST_STEPS], values: float32Block(all),
+    ...(r.jitter ? { jitter: { threshold: r.jitter.threshold, readout: readoutToJson({ ...r.jitter.robust, jitter: null }) } } : {}),
   };
 }
 
@@ -106,7 +109,16 @@ function readoutFromJson(v: unknown, c: ModelConfig, bad: (why: string) => never
   const f = Float64Array.from(readFloat32Block(b!, b!.count, 'readout values', 'readout value', bad));
   const featureSd = f.slice(d, 2 * d);
   if (featureSd.some((x) => !(x > 0))) bad('a readout feature SD is not positive');
-  return { senders: r.senders!, lambda: r.lambda!, knots: readoutKnots(c), priorSteps: readoutPriorSteps(c), featureMean: f.slice(0, d), featureSd, targetMean: f.slice(2 * d, 2 * d + m), weights: f.slice(2 * d + m) };
+  const out: PairReadout = { senders: r.senders!, lambda: r.lambda!, knots: readoutKnots(c), priorSteps: readoutPriorSteps(c), featureMean: f.slice(0, d), featureSd, targetMean: f.slice(2 * d, 2 * d + m), weights: f.slice(2 * d + m), jitter: null };
+  if (r.jitter !== undefined && r.jitter !== null) {
+    const j = r.jitter;
+    if (typeof j !== 'object' || typeof j.threshold !== 'number' || !(j.threshold >= 0) || !Number.isFinite(j.threshold)) bad('the readout jitter switch needs a finite threshold ≥ 0');
+    if (typeof j.readout !== 'object' || j.readout === null || (j.readout as Partial<ReadoutJson>).jitter) bad('the readout jitter switch holds no plain robust readout');
+    const robust = readoutFromJson(j.readout, c, (why) => bad(`robust readout: ${why}`));
+    if (robust.senders !== out.senders) bad('the robust readout reads other senders than the readout');
+    out.jitter = { threshold: j.threshold, robust };
+  }
+  return out;
 }
 
 /** Returns the model as a model-file JSON value. */

@@ -1,12 +1,11 @@
-// Fitting the coupling model and its no-coupling twin on the same takes and budget, then calibrating
-// the spread of each on the held-out subjects' windows, as `jointloom fit` stores them.
-import { windowsOf, type Window } from '../motion/window.js';
+// Fitting the coupling model and its no-coupling twin on the same takes and budget, then fitting the pair
+// readout and calibrating the spread of each on the held-out subjects' windows (post-fit.ts, the twin's on
+// a second thread), as `jointloom fit` stores them.
 import type { TrainingTake } from './batch.js';
-import { calibrateSpread } from './calibrate.js';
 import type { CouplingModel } from './model.js';
 import { modelFromJson, modelToJson, saveModel, type LoadedModel } from './modelfile.js';
-import { modelWindowOptions } from './config.js';
-import { fitModelReadout, type ReadoutOutcome } from './readout-fit.js';
+import { postFit, type PostFitInput } from './post-fit.js';
+import type { ReadoutOutcome } from './readout-fit.js';
 import { heldOutSplit, type HeldOutSplit } from './split.js';
 import { trainParallel } from './parallel.js';
 import { train, type TrainOptions, type TrainProgress, type TrainingSummary } from './train.js';
@@ -27,27 +26,13 @@ export function runSplit(takes: readonly TrainingTake[], options: TrainOptions, 
   return heldOutSplit(takes, model.config, options.validSubjects, options.batchSize ?? 16, options.windowStride ?? 3);
 }
 
-/** Returns the held-out windows (every `stride` steps, each with its full causal history) of the run's held-out takes. */
-export function heldOutWindows(takes: readonly TrainingTake[], options: TrainOptions, model: CouplingModel, stride: number, split = runSplit(takes, options, model)): Window[] {
-  return fullHistoryWindows(split.valid, model, stride);
-}
-
-/** Returns the windows of `takes` every `stride` steps that have their full causal history and future. */
-function fullHistoryWindows(takes: readonly TrainingTake[], model: CouplingModel, stride: number): Window[] {
-  const c = model.config, first = c.stridePrior ? c.priorHistory : c.observe;
-  const out: Window[] = [];
-  for (const t of takes)
-    for (const w of windowsOf(t.track, stride, modelWindowOptions(c))) if (w.futureSteps === c.forecast && w.endObservedStep >= first) out.push(w);
-  return out;
-}
-
 /**
- * Returns the windows the forecast spread is calibrated on: the held-out windows of the run, then those
- * of `extra` takes (subjects never trained on, e.g. the shipped model's calibration cohort), every
- * `stride` steps.
+ * Returns what the post-fit phase reads: the split's training and held-out takes for the readout, and for
+ * the spread calibration the held-out takes followed by `extra` takes (subjects never trained on, e.g. the
+ * shipped model's calibration cohort), windows every `calibrationStride(summary)` steps.
  */
-export function spreadCalibrationWindows(takes: readonly TrainingTake[], options: TrainOptions, model: CouplingModel, stride: number, split: HeldOutSplit, extra: readonly TrainingTake[] = []): Window[] {
-  return [...heldOutWindows(takes, options, model, stride, split), ...fullHistoryWindows(extra, model, stride)];
+export function postFitInput(split: HeldOutSplit, options: TrainOptions, summary: TrainingSummary | null, extra: readonly TrainingTake[] = [], readout = true): PostFitInput {
+  return { train: split.train, valid: split.valid, calibration: [...split.valid, ...extra], stride: options.windowStride ?? 3, validStride: calibrationStride(summary), readout };
 }
 
 /** Returns the steps between calibration windows: every 15 (0.5 s) of held-out subjects, every 5 of a take's short tail. */
@@ -65,7 +50,8 @@ export type FitPairOptions = TrainOptions & {
   threads?: number;
   /** Takes of subjects never trained on whose windows join the held-out ones for the spread calibration. */
   calibrationTakes?: readonly TrainingTake[];
-  onPhase?: (phase: 'model' | 'twin' | 'readout' | 'calibrate') => void;
+  /** Phases: training the model, training the twin, then the readouts and spread calibration of both. */
+  onPhase?: (phase: 'model' | 'twin' | 'post-fit') => void;
   onProgress?: (p: TrainProgress) => void;
 };
 
@@ -82,25 +68,10 @@ export async function fitPair(takes: readonly TrainingTake[], options: FitPairOp
     twinSummary = r.summary;
   }
   const split = runSplit(takes, options, model);
-  options.onPhase?.('readout');
-  const readout = fitReadouts(model, twin, split, options.windowStride ?? 3, calibrationStride(summary));
-  options.onPhase?.('calibrate');
-  const wins = spreadCalibrationWindows(takes, options, model, calibrationStride(summary), split, options.calibrationTakes);
-  const spread = { model: wins.length ? calibrateSpread(model, wins) : model.spreadScale, twin: twin && wins.length ? calibrateSpread(twin, wins) : null };
-  return { model, summary, twin, twinSummary, spread, readout };
-}
-
-/**
- * Fits the pair readouts of the model (every node to every receiver) and its twin (each node to itself)
- * on the split's training takes, windows every `stride` steps, the ridge weight picked on the held-out
- * takes' windows every `validStride` steps; none without the stride prior.
- */
-export function fitReadouts(model: CouplingModel, twin: CouplingModel | null, split: HeldOutSplit, stride: number, validStride: number): FittedPair['readout'] {
-  if (!model.config.stridePrior) return { model: null, twin: null };
-  return {
-    model: fitModelReadout(model, split.train, split.valid, stride, validStride),
-    twin: twin ? fitModelReadout(twin, split.train, split.valid, stride, validStride) : null,
-  };
+  options.onPhase?.('post-fit');
+  const post = await postFit(model, twin, postFitInput(split, options, summary, options.calibrationTakes), options.threads ?? 1);
+  const spread = { model: model.spreadScale, twin: twin ? twin.spreadScale : null };
+  return { model, summary, twin, twinSummary, spread, readout: { model: post.model.readout, twin: post.twin?.readout ?? null } };
 }
 
 /** Writes the pair to one model file (the twin under extras.no_coupling) and returns the path. */

@@ -2,9 +2,6 @@
 // threads (shard-worker.ts), each from the same weights (a shared buffer) and its own noise stream; the
 // shard gradients are then reduced in index order. The result is bit-identical to the sequential step
 // runner of train.ts, so `trainParallel` and `train` give the same weights for one seed.
-import { existsSync } from 'node:fs';
-import { createRequire } from 'node:module';
-import { fileURLToPath, pathToFileURL } from 'node:url';
 import { Worker } from 'node:worker_threads';
 import { reduceInOrder } from '../nn/params.js';
 import { Pcg32 } from '../nn/prng.js';
@@ -12,6 +9,7 @@ import type { Buf } from '../nn/types.js';
 import { elboBackward, elboForward } from './elbo.js';
 import type { CouplingModel } from './model.js';
 import type { ShardJob, ShardWorkerData } from './shard-worker.js';
+import { workerEntry } from './worker-entry.js';
 import { prepareTraining, trainingLoop, type StepRequest, type TrainingContext, type TrainingSummary, type TrainOptions } from './train.js';
 
 /** A step runner whose shards beyond the first run on worker threads. */
@@ -21,22 +19,6 @@ export interface ParallelRunner {
   close(): Promise<void>;
 }
 
-/**
- * Returns how to start a worker: the compiled shard-worker.js beside this module, or, when running from
- * the TypeScript sources (tests, tsx), a bootstrap that registers tsx's loader and imports the .ts source.
- */
-function workerEntry(): { code: string; eval: boolean } {
-  const here = fileURLToPath(import.meta.url);
-  if (here.endsWith('.ts')) {
-    const api = pathToFileURL(createRequire(import.meta.url).resolve('tsx/esm/api').replace(/index\.cjs$/, 'index.mjs')).href;
-    const src = pathToFileURL(here.replace(/parallel\.ts$/, 'shard-worker.ts')).href;
-    return { code: `import(${JSON.stringify(api)}).then((m) => { m.register(); return import(${JSON.stringify(src)}); });`, eval: true };
-  }
-  const js = here.replace(/parallel\.js$/, 'shard-worker.js');
-  if (!existsSync(js)) throw new Error(`the shard worker ${js} is missing`);
-  return { code: js, eval: false };
-}
-
 /** Returns a parallel runner for a prepared training run (ctx.shards − 1 worker threads). */
 export function createParallelRunner(ctx: TrainingContext): ParallelRunner {
   const { model, runner, shards, batchSize } = ctx;
@@ -44,7 +26,7 @@ export function createParallelRunner(ctx: TrainingContext): ParallelRunner {
   const per = batchSize / shards, size = model.store.size;
   const weightsShared = new SharedArrayBuffer(size * 4);
   const weights = new Float32Array(weightsShared);
-  const entry = workerEntry();
+  const entry = workerEntry('shard-worker');
   const workers = Array.from({ length: shards - 1 }, () => {
     const grad = new SharedArrayBuffer(size * 4);
     const data: ShardWorkerData = { config: model.config, stats: model.stats, takes: ctx.trainTakes, shardSize: per, weights: weightsShared, grad };

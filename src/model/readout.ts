@@ -14,6 +14,12 @@
 // the last observed step and READOUT_LAGS steps before it; the stride prior's forecast position at four
 // forecast steps; and the backcast: how far the steps of the last READOUT_BACKCAST observed steps landed
 // from the registered stride forecast made just before them.
+//
+// Capture jitter: fitted on clean synthetic motion, the readout's weights on the last few lags act as
+// differences and amplify a noisy capture's frame-to-frame jitter. A second, jitter-robust readout is
+// fitted with jittered copies of the training windows added (readout-fit.ts); a window whose measured
+// jitter (captureJitter: its positions' fourth differences over the last second) lies above a threshold
+// picked on the held-out windows is corrected by that one instead.
 import { STATE_SIZE } from '../motion/reflect.js';
 import { choleskyFactor, choleskySolveFactored } from '../nn/cholesky.js';
 import { registeredStrideForecast, strideForecast } from './baselines.js';
@@ -31,6 +37,16 @@ export const READOUT_DEFAULT_LAMBDA = 0.01;
 
 /** Which senders a receiver reads: every node (the coupling model) or only itself (the no-coupling twin). */
 export type ReadoutSenders = 'all' | 'self';
+
+/** Steps at the end of the history whose fourth differences measure the capture jitter (1 s at 30 Hz). */
+export const JITTER_STEPS = 30;
+
+/** The jitter-robust readout and the measured jitter above which a window uses it. */
+export interface ReadoutJitterSwitch {
+  /** captureJitter (leg lengths) above which the robust readout corrects a window. */
+  threshold: number;
+  robust: PairReadout;
+}
 
 /** A fitted pair readout. */
 export interface PairReadout {
@@ -50,6 +66,33 @@ export interface PairReadout {
    * 'self': per node perNode × (knots · 3), nodes one after another.
    */
   weights: Float64Array;
+  /** The jitter-robust readout for windows of a noisy capture (absent or null: this one for every window). */
+  jitter?: ReadoutJitterSwitch | null;
+}
+
+/**
+ * Returns the capture jitter of history positions (steps × N × 3, window frame, leg lengths): the RMS over
+ * nodes, axes and the last JITTER_STEPS steps of the fourth difference, divided by √70, which makes it the
+ * SD of white noise on the positions (each fourth difference sums five values with weights 1, −4, 6, −4,
+ * 1: variance 70σ²). Walking itself adds little: its content lies far below the Nyquist rate, where the
+ * fourth difference's gain is small.
+ */
+export function captureJitter(positions: Float64Array, steps: number, nodes: number): number {
+  const n3 = nodes * 3, from = Math.max(4, steps - JITTER_STEPS);
+  let sum = 0, count = 0;
+  for (let t = from; t < steps; t++)
+    for (let i = 0; i < n3; i++) {
+      const p = (k: number) => positions[(t - k) * n3 + i]!;
+      const d4 = p(0) - 4 * p(1) + 6 * p(2) - 4 * p(3) + p(4);
+      sum += d4 * d4;
+      count++;
+    }
+  return count ? Math.sqrt(sum / (70 * count)) : 0;
+}
+
+/** Returns the readout that corrects a window of measured capture jitter `jitter`: the robust one above the threshold. */
+export function readoutFor(r: PairReadout, jitter: number): PairReadout {
+  return r.jitter && jitter > r.jitter.threshold ? r.jitter.robust : r;
 }
 
 /** Features per node. */
@@ -97,6 +140,16 @@ export function readoutFeatures(c: ModelConfig, history: ArrayLike<number>, hist
   if (H !== need || history.length < H * W) return null;
   const pos = scratch.positions;
   for (let t = 0; t < H; t++) for (let n = 0; n < N; n++) for (let a = 0; a < 3; a++) pos[(t * N + n) * 3 + a] = history[t * W + n * STATE_SIZE + a]!;
+  return readoutFeaturesOfPositions(c, scratch);
+}
+
+/**
+ * Writes the features of the full history's node positions held in scratch.positions (history × N × 3,
+ * window frame) into scratch.features and returns it (readoutFeatures after its copy; augmentation calls
+ * it on jittered positions).
+ */
+export function readoutFeaturesOfPositions(c: ModelConfig, scratch: ReadoutScratch): Float64Array {
+  const N = c.nodes, H = readoutHistory(c), pos = scratch.positions;
   const stride = c.priorRegistration ? registeredStrideForecast : strideForecast;
   const e = H - 1, b = e - READOUT_BACKCAST, steps = readoutPriorSteps(c);
   stride(pos, N, c.rate, e, c.forecast, 3, scratch.prior);
@@ -160,8 +213,12 @@ export function mirrorNodeVectors(values: Float64Array, nodeMirror: Int32Array, 
   return out;
 }
 
-/** Fitting data: features (nodes × perNode) and targets (nodes × knots × 3) per window. */
-export interface ReadoutData { features: Float64Array[]; targets: Float64Array[] }
+/**
+ * Fitting data: features (nodes × perNode) and targets (nodes × knots × 3) per window; `jittered` marks
+ * the augmented copies (absent: none) and `copy` which one (−1: the clean window), `jitter` holds each
+ * window's captureJitter (absent: 0).
+ */
+export interface ReadoutData { features: Float64Array[]; targets: Float64Array[]; jittered?: boolean[]; jitter?: number[]; copy?: number[] }
 
 /** Result of fitReadout: the readout and the held-out error of every ridge weight tried. */
 export interface ReadoutFit {
@@ -174,16 +231,24 @@ export interface ReadoutFit {
 }
 
 /** Returns the mean over windows, nodes and knots of the distance between target and prediction (null: no correction). */
-function knotError(r: PairReadout | null, data: ReadoutData, nodes: number): number {
+export function knotError(r: PairReadout | null, data: ReadoutData, nodes: number): number {
   if (data.features.length === 0) return NaN;
+  return knotErrors(r, data, nodes).reduce((a, b) => a + b, 0) / data.features.length;
+}
+
+/** Returns each window's mean over nodes and knots of the distance left after the correction (a switched readout picks per window by its jitter). */
+export function knotErrors(r: PairReadout | null, data: ReadoutData, nodes: number): Float64Array {
+  const out = new Float64Array(data.features.length);
+  if (out.length === 0) return out;
   const pred = new Float64Array(data.targets[0]!.length), z = new Float64Array(data.features[0]!.length);
-  let sum = 0;
   data.features.forEach((f, i) => {
     const t = data.targets[i]!;
-    if (r) readoutKnotValues(r, f, nodes, pred, z); else pred.fill(0);
+    if (r) readoutKnotValues(readoutFor(r, data.jitter?.[i] ?? 0), f, nodes, pred, z); else pred.fill(0);
+    let sum = 0;
     for (let o = 0; o < t.length; o += 3) sum += Math.hypot(t[o]! - pred[o]!, t[o + 1]! - pred[o + 1]!, t[o + 2]! - pred[o + 2]!);
+    out[i] = (3 * sum) / pred.length;
   });
-  return (3 * sum) / (data.features.length * pred.length);
+  return out;
 }
 
 /**
@@ -250,10 +315,15 @@ export function fitReadout(c: ModelConfig, senders: ReadoutSenders, train: Reado
   return { readout: best!, validError, validNone, trainWindows: n, validWindows: valid.features.length };
 }
 
-/** Returns the correction of every forecast step (forecast × N × 3, window frame, leg lengths) of a window's history, or null without full history. */
+/**
+ * Returns the correction of every forecast step (forecast × N × 3, window frame, leg lengths) of a
+ * window's history, or null without full history; with a jitter switch, a window of high captureJitter
+ * gets the robust readout's.
+ */
 export function readoutCorrection(c: ModelConfig, r: PairReadout, history: ArrayLike<number>, historySteps: number, scratch: ReadoutScratch, out: Float64Array): Float64Array | null {
   const f = readoutFeatures(c, history, historySteps, scratch);
   if (!f) return null;
-  readoutKnotValues(r, f, c.nodes, scratch.knots, scratch.standardised);
+  const use = r.jitter ? readoutFor(r, captureJitter(scratch.positions, historySteps, c.nodes)) : r;
+  readoutKnotValues(use, f, c.nodes, scratch.knots, scratch.standardised);
   return spreadKnots(r.knots, scratch.knots, c.nodes, c.forecast, out);
 }

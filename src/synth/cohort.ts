@@ -10,7 +10,7 @@ import type { NamingStyle } from './naming.js';
 import { Mulberry32 } from './prng.js';
 
 /** Groups of the held-out cohort. */
-export type CohortGroup = 'normal' | 'impaired' | 'variable' | 'other' | 'stumble';
+export type CohortGroup = 'normal' | 'impaired' | 'variable' | 'other' | 'stumble' | 'noisy';
 
 /** One subject of a cohort: a pseudonymous id, its group and the walker options of its take. */
 export interface CohortSubject {
@@ -96,12 +96,14 @@ function trainingSequence(from: number, count: number, duration: number, prefix:
 /**
  * Returns the held-out cohort, `perGroup` subjects per group (default 5): normal; impaired (one side);
  * highly variable (stride-time CV 5 %, step-length CV 6 %); other bodies and files (heights 1.45-2.05 m,
- * every naming style, m/mm/in, Z up, mixed rotation orders, 100 and 120 Hz); and stumble takes (one
- * stumble at a known time, for the surprise timeline).
+ * every naming style, m/mm/in, Z up, mixed rotation orders, 100 and 120 Hz); stumble takes (one
+ * stumble at a known time, for the surprise timeline); and noisy captures (sensor jitter of 0.3-1° on
+ * every rotation channel and 1-3 mm on the root, as a marker set with poor coverage gives). The noisy
+ * group comes last, so the other groups keep the seeds they had before it was added.
  */
 export function heldOutCohort(perGroup = 5, duration = 30): CohortSubject[] {
   const out: CohortSubject[] = [];
-  const groups: CohortGroup[] = ['normal', 'impaired', 'variable', 'other', 'stumble'];
+  const groups: CohortGroup[] = ['normal', 'impaired', 'variable', 'other', 'stumble', 'noisy'];
   let i = 0;
   for (const group of groups)
     for (let k = 0; k < perGroup; k++, i++) {
@@ -116,6 +118,10 @@ export function heldOutCohort(perGroup = 5, duration = 30): CohortSubject[] {
         o.upAxis = k % 2 === 0 ? 'Z' : 'Y';
         o.rotationOrder = k % 3 === 0 ? 'mixed' : k % 3 === 1 ? 'XYZ' : 'YZX';
         o.frameRate = k % 2 === 0 ? 100 : 120;
+      }
+      if (group === 'noisy') {
+        const f = k / Math.max(1, perGroup - 1);
+        o.noise = { rotationDeg: round3(0.3 + 0.7 * f), positionMm: round3(1 + 2 * f) };
       }
       if (group === 'stumble') o.stumbles = [{ time: round3(10 + 8 * (k / Math.max(1, perGroup))), side: k % 2 === 0 ? 'left' : 'right' }];
       out.push({ id: `HO${String(i + 1).padStart(3, '0')}`, group, options: o });

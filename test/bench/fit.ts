@@ -12,15 +12,17 @@ import { synthesizeTake } from '../../src/synth/index.js';
 import { buildCli, builtCli, repo } from './built-cli.js';
 import { ratio, type Section } from './report.js';
 
+interface Pair { before: number; after: number }
 interface FitSummary {
   epochs_run: number; best_epoch: number; steps: number; ms_per_step: number; twin: { best_epoch: number } | null;
-  readout: { model: { kept: boolean; dropped: string | null; valid_knot_error_before: number | null; valid_knot_error_after: number | null } | null };
+  readout: { model: { kept: boolean; dropped: string | null; valid_knot_error_clean: Pair | null; valid_knot_error_jittered: Pair | null } | null };
 }
 
 /** Returns the row on the model's pair readout: the held-out knot error after it, or why none was kept. */
 function readoutRow(r: FitSummary['readout']['model']): Section['rows'][number] {
   if (!r?.kept) return { name: 'pair readout', value: NaN, unit: '', note: `none kept${r?.dropped ? `: ${r.dropped}` : ''}` };
-  return { name: 'pair readout, held-out knot error', value: 1000 * (r.valid_knot_error_after ?? NaN), unit: 'mLL', note: `milli-leg-lengths; ${(1000 * (r.valid_knot_error_before ?? NaN)).toFixed(1)} before it` };
+  const m = (x: number | undefined) => (1000 * (x ?? NaN)).toFixed(1);
+  return { name: 'pair readout, held-out knot error', value: 1000 * (r.valid_knot_error_clean?.after ?? NaN), unit: 'mLL', note: `milli-leg-lengths; ${m(r.valid_knot_error_clean?.before)} before it; jittered copies ${m(r.valid_knot_error_jittered?.before)} -> ${m(r.valid_knot_error_jittered?.after)}` };
 }
 
 /** Returns the single-take fit section (one run: a fit is long, and its time is the figure itself). */

@@ -1,6 +1,7 @@
 // Forecast baselines on signals whose future is known by construction (hand-computed cases).
 import { describe, expect, it } from 'vitest';
 import { baselineForecast, constantVelocity, registeredStrideForecast, strideForecast, zeroMotion } from '../../src/model/baselines.js';
+import { Pcg32 } from '../../src/nn/prng.js';
 import { bandCoverage, bandStats, horizonStep, meanJointError } from '../../src/model/metrics.js';
 import { stridePeriodAt } from '../../src/model/period.js';
 
@@ -70,6 +71,33 @@ describe('forecast baselines', () => {
     expect(score(50)).toBeCloseTo(90, 12);
     expect(score(4)).toBeCloseTo(110, 12);
     expect(score(97)).toBeCloseTo(130, 12);
+  });
+
+  it('band limits are the type-7 quantiles of the sorted samples', () => {
+    // Reference: the sample quantile of Hyndman and Fan (1996), type 7 (linear between order statistics at
+    // p·(n − 1); common practice, the default of R and NumPy), on each coordinate's samples sorted by Array.sort.
+    const type7 = (xs: number[], p: number) => { const v = [...xs].sort((a, b) => a - b), x = p * (v.length - 1), i = Math.floor(x); return i + 1 < v.length ? v[i]! + (x - i) * (v[i + 1]! - v[i]!) : v[i]!; };
+    const rng = new Pcg32(21, 4);
+    for (const [n, level] of [[20, 0.9], [20, 0.5], [7, 0.9], [101, 0.9], [3, 0.9], [2, 0.9], [1, 0.9], [40, 0.98]] as const) {
+      const L = 37, base = new Float64Array(n * L), dir = new Float64Array(n * L), truth = new Float64Array(L);
+      for (let i = 0; i < n * L; i++) { base[i] = rng.gauss(); dir[i] = rng.gauss(); }
+      // Ties too: a few coordinates with repeated values.
+      for (let s = 0; s < n; s++) base[s * L] = Math.round(base[s * L]!);
+      for (let c = 0; c < L; c++) truth[c] = 1.5 * rng.gauss();
+      for (const g of [0, 0.7]) {
+        let inside = 0, score = 0;
+        const a = 1 - level;
+        for (let c = 0; c < L; c++) {
+          const xs = Array.from({ length: n }, (_, s) => base[s * L + c]! + g * dir[s * L + c]!);
+          const l = type7(xs, a / 2), u = type7(xs, 1 - a / 2), v = truth[c]!;
+          if (v >= l && v <= u) inside++;
+          score += u - l + (v < l ? (2 / a) * (l - v) : 0) + (v > u ? (2 / a) * (v - u) : 0);
+        }
+        const got = bandStats(base.map((b, i) => b + g * dir[i]!), n, truth, level, new Float64Array(n));
+        expect(got.coverage, `n ${n} level ${level} g ${g}`).toBe(inside / L);
+        expect(got.score).toBeCloseTo(score / L, 10);
+      }
+    }
   });
 
   it('the registered stride mean forecasts a periodic walk like the stride mean, and reads nothing after the end', () => {

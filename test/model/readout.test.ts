@@ -1,6 +1,7 @@
 // The pair readout (src/model/readout.ts): its ridge fit against simple-statistics' least-squares line
 // (a reference library from the registry), knot interpolation and feature values hand-computed, the
-// mirror, the correction reaching every forecast path, and its block in the model file.
+// mirror, the correction reaching every forecast path, its block in the model file, and the fitting data's
+// jittered copies.
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -11,10 +12,14 @@ import { resolveModelConfig } from '../../src/model/config.js';
 import { createModel } from '../../src/model/model.js';
 import { loadModel, saveModel } from '../../src/model/modelfile.js';
 import {
-  fitReadout, mirrorNodeVectors, readoutFeatures, readoutFeaturesPerNode, readoutKnots, readoutScratch, spreadKnots, type ReadoutData,
+  captureJitter, fitReadout, JITTER_STEPS, mirrorNodeVectors, readoutCorrection, readoutFeatures, readoutFeaturesPerNode, readoutFor, readoutKnots, readoutScratch,
+  spreadKnots, type ReadoutData,
 } from '../../src/model/readout.js';
+import { JITTER_THRESHOLD_FACTOR, jitterThreshold, readoutData } from '../../src/model/readout-fit.js';
+import { statsOfTakes } from '../../src/model/train.js';
 import { Pcg32 } from '../../src/nn/prng.js';
 import { identityStats, TINY } from './support.js';
+import { SMALL, synthTrainingTake } from './takes.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'jointloom-readout-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -105,5 +110,85 @@ describe('pair readout', () => {
     expect(refused(write('short.json', (k) => { k.readout.values.base64 = k.readout.values.base64.slice(0, 40); }))).toMatch(/truncated/);
     // A file written before the readout loads without one.
     expect(loadModel(write('old.json', (k) => { delete k.readout; })).model.readout).toBeNull();
+  });
+});
+
+describe('pair readout fitting data', () => {
+  it('adds jittered copies of each window with the clean target, mirrored like the clean ones', () => {
+    const take = synthTrainingTake(3, 9);
+    const sc = resolveModelConfig(SMALL), model = createModel(sc, statsOfTakes([take], sc), { seed: 2 });
+    const plain = readoutData(model, [take], 30, { mirror: false, jitterScales: [] });
+    const aug = readoutData(model, [take], 30, { mirror: true, jitterScales: [0.25, 1] });
+    const n = plain.features.length;
+    expect(n).toBeGreaterThan(0);
+    // Per window: clean, its mirror, then two jittered copies each with its mirror.
+    expect(aug.features.length).toBe(6 * n);
+    expect(aug.jittered).toEqual(Array.from({ length: n }, () => [false, false, true, true, true, true]).flat());
+    expect(aug.copy).toEqual(Array.from({ length: n }, () => [-1, -1, 0, 0, 1, 1]).flat());
+    // A window's copies measure more jitter than the clean window, its mirror image the same as itself.
+    for (let w = 0; w < n; w++) {
+      expect(aug.jitter![6 * w + 1]).toBe(aug.jitter![6 * w]);
+      expect(aug.jitter![6 * w + 4]).toBeGreaterThan(aug.jitter![6 * w]!);
+    }
+    for (let w = 0; w < n; w++) {
+      expect(Array.from(aug.features[6 * w]!)).toEqual(Array.from(plain.features[w]!));
+      for (const q of [2, 4]) {
+        expect(Array.from(aug.targets[6 * w + q]!)).toEqual(Array.from(plain.targets[w]!));
+        // The jittered copy's features differ from the clean ones, by a little.
+        const d = aug.features[6 * w + q]!.map((x, i) => Math.abs(x - plain.features[w]![i]!));
+        expect(Math.max(...d)).toBeGreaterThan(0);
+        expect(Math.max(...d)).toBeLessThan(0.2);
+      }
+    }
+  });
+});
+
+describe('jitter switch', () => {
+  it('measures no jitter on cubic motion and the SD of white noise added to it', () => {
+    // Hand-computed: the fourth difference of a cubic vanishes; of white noise of SD σ it has variance
+    // (1 + 16 + 36 + 16 + 1)σ² = 70σ².
+    const Nn = 5, H = 150, pos = new Float64Array(H * Nn * 3);
+    for (let t = 0; t < H; t++) for (let i = 0; i < Nn * 3; i++) pos[t * Nn * 3 + i] = 0.3 + 0.01 * i * t - 1e-4 * t * t + 2e-7 * t * t * t;
+    expect(captureJitter(pos, H, Nn)).toBeLessThan(1e-9);
+    const rng = new Pcg32(8, 1), sigma = 0.004;
+    // Only the last JITTER_STEPS steps (and the 4 before them) are read: noise earlier changes nothing.
+    const noisy = pos.map((x, k) => x + (k >= (H - JITTER_STEPS - 4) * Nn * 3 ? sigma * rng.gauss() : 0));
+    const early = noisy.map((x, k) => (k < 50 * Nn * 3 ? x + 1 : x));
+    expect(captureJitter(noisy, H, Nn) / sigma).toBeCloseTo(1, 1);
+    expect(captureJitter(early, H, Nn)).toBe(captureJitter(noisy, H, Nn));
+  });
+
+  it('sets the threshold at a factor times the 99th percentile of the clean windows (hand-computed)', () => {
+    // 101 values 0, 0.01, …, 1: the type-7 99th percentile (Hyndman and Fan 1996; common practice) is 0.99.
+    const v = Array.from({ length: 101 }, (_, i) => (100 - i) / 100);
+    expect(jitterThreshold(v)).toBeCloseTo(JITTER_THRESHOLD_FACTOR * 0.99, 12);
+    // Between order statistics: 11 values 0 … 10, p · (n − 1) = 9.9 → 9 + 0.9 · 1 = 9.9.
+    expect(jitterThreshold(Array.from({ length: 11 }, (_, i) => i))).toBeCloseTo(JITTER_THRESHOLD_FACTOR * 9.9, 12);
+  });
+
+  it('corrects a window of high jitter with the robust readout, and keeps the switch in the model file', () => {
+    const model = createModel(c, identityStats(N), { seed: 5 });
+    const clean = fitReadout(c, 'all', lineData(50, 3, 1, 4), { features: [], targets: [] }).readout;
+    const robust = fitReadout(c, 'all', lineData(50, 3, -1, 6), { features: [], targets: [] }).readout;
+    model.readout = { ...clean, jitter: { threshold: 0.01, robust } };
+    expect(readoutFor(model.readout, 0.005)).toBe(model.readout);
+    expect(readoutFor(model.readout, 0.02)).toBe(robust);
+    // A history of straight lines (no jitter) and the same with alternating ±0.02 on every coordinate (jitter 0.02 · 16 / √70 ≈ 0.038).
+    const H = c.priorHistory, W = N * 6, quiet = new Float64Array(H * W);
+    for (let t = 0; t < H; t++) for (let n = 0; n < N; n++) quiet[t * W + n * 6] = 0.01 * t + n;
+    const loud = quiet.map((x, k) => (k % 6 < 3 ? x + 0.02 * ((Math.floor(k / W) % 2) * 2 - 1) : x));
+    const corr = (r: typeof clean, h: Float64Array) => Array.from(readoutCorrection(c, r, h, H, readoutScratch(c), new Float64Array(c.forecast * N * 3))!);
+    expect(corr(model.readout, quiet)).toEqual(corr(clean, quiet));
+    expect(corr(model.readout, loud)).toEqual(corr(robust, loud));
+    expect(corr(model.readout, loud)).not.toEqual(corr(clean, loud));
+    const path = join(dir, 'switch.json');
+    saveModel(path, model);
+    const back = loadModel(path).model.readout!;
+    expect(back.jitter!.threshold).toBe(0.01);
+    expect(Array.from(back.jitter!.robust.weights)).toEqual(Array.from(Float32Array.from(robust.weights)));
+    const j = JSON.parse(readFileSync(path, 'utf8'));
+    j.readout.jitter.readout.values.sha256 = '0'.repeat(64);
+    writeFileSync(path, JSON.stringify(j));
+    expect(() => loadModel(path)).toThrow(/robust readout: .*readout values do not match/);
   });
 });

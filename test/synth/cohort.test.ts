@@ -34,6 +34,17 @@ describe('cohorts', () => {
     expect(new Set(cal.map((s) => s.group))).toEqual(new Set(['normal', 'impaired', 'variable']));
   });
 
+  it('add noisy captures to the held-out cohort after every other group, which keep their seeds', () => {
+    const ho = heldOutCohort(5);
+    expect(ho.map((s) => s.group)).toEqual(['normal', 'impaired', 'variable', 'other', 'stumble', 'noisy'].flatMap((g) => Array(5).fill(g)));
+    // Seeds 70000 + position: the first 25 subjects are those scored before the noisy group was added.
+    expect(ho.map((s) => s.options.seed)).toEqual(Array.from({ length: 30 }, (_, i) => 70000 + i));
+    const noisy = ho.filter((s) => s.group === 'noisy').map((s) => s.options.noise!);
+    expect(noisy[0]).toEqual({ rotationDeg: 0.3, positionMm: 1 });
+    expect(noisy[4]).toEqual({ rotationDeg: 1, positionMm: 3 });
+    expect(ho.filter((s) => s.group !== 'noisy').every((s) => s.options.noise === undefined)).toBe(true);
+  });
+
   it('give the joint-profile development cohort 8 subjects per kind and stratum in each arm', () => {
     const dev = jointProfileCohort();
     // 4 walker-made joint kinds × 3 strata × 8 + 4 edited joints × 3 strata × 8 + 2 side-only kinds × 3 strata × 8.

@@ -1,0 +1,18 @@
+// How the model's worker threads start: the compiled worker module beside this one, or, when running from
+// the TypeScript sources (tests, tsx), a bootstrap that registers tsx's loader and imports the .ts source.
+import { existsSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+
+/** Returns the code (or file) and eval switch of a Worker running the module `name` of this folder (e.g. 'shard-worker'). */
+export function workerEntry(name: string): { code: string; eval: boolean } {
+  const here = fileURLToPath(import.meta.url);
+  if (here.endsWith('.ts')) {
+    const api = pathToFileURL(createRequire(import.meta.url).resolve('tsx/esm/api').replace(/index\.cjs$/, 'index.mjs')).href;
+    const src = pathToFileURL(here.replace(/worker-entry\.ts$/, `${name}.ts`)).href;
+    return { code: `import(${JSON.stringify(api)}).then((m) => { m.register(); return import(${JSON.stringify(src)}); });`, eval: true };
+  }
+  const js = here.replace(/worker-entry\.js$/, `${name}.js`);
+  if (!existsSync(js)) throw new Error(`the worker module ${js} is missing`);
+  return { code: js, eval: false };
+}
