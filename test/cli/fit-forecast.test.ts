@@ -1,6 +1,6 @@
 // fit and forecast as a user runs them: a tiny training run writes a model file with its no-coupling
 // twin; forecast scores the model, the twin and every baseline on the recorded future; a corrupt model
-// file and an impossible --at are refused with one line.
+// file and an impossible --at are refused with one line; with the shipped model, forecast names the pair readout it used (standard or jitter-robust).
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -75,6 +75,20 @@ describe('fit and forecast commands', () => {
     expect(rows.slice(1).map((l) => Number(l.split(',')[0]))).toEqual(j.timeline.map((t: { time_s: number }) => t.time_s));
     expect(rows.slice(1).map((l) => l.split(',')[3])).toEqual(j.timeline.map((t: { irregular: boolean }) => (t.irregular ? '1' : '0')));
   }, 120_000);
+
+  it('forecast with the shipped model names the readout: the standard one on a clean capture, the jitter-robust one on a noisy capture', async () => {
+    // Same invented walker, 9 s at 100 Hz, without and with 0.6° of jitter on every rotation channel (the demo's noisy capture).
+    const walker = { seed: 9200, duration: 9, frameRate: 100 };
+    writeFileSync(join(tmp, 'clean.bvh'), synthesizeTake(walker).bvhText);
+    writeFileSync(join(tmp, 'noisy.bvh'), synthesizeTake({ ...walker, noise: { rotationDeg: 0.6, positionMm: 1.5 } }).bvhText);
+    const run = async (f: string) => JSON.parse((await runCli(['forecast', join(tmp, f), '--at', '7', '--json'])).stdout);
+    const clean = await run('clean.bvh'), noisy = await run('noisy.bvh');
+    expect(clean.readout).toBe('standard');
+    expect(noisy.readout).toBe('jitter-robust');
+    expect(noisy.capture_jitter_mll).toBeGreaterThan(clean.capture_jitter_mll);
+    const text = await runCli(['forecast', join(tmp, 'noisy.bvh'), '--at', '7']);
+    expect(text.stdout).toMatch(/noisy capture: .* jitter-robust pair readout corrected this forecast/);
+  });
 
   it('a corrupt model file and an --at without 2 s observed are refused with one line', async () => {
     const bad = join(tmp, 'bad.json');
