@@ -1,6 +1,7 @@
 // fit and forecast as a user runs them: a tiny training run writes a model file with its no-coupling
 // twin; forecast scores the model, the twin and every baseline on the recorded future; a corrupt model
-// file and an impossible --at are refused with one line; with the shipped model, forecast names the pair readout it used (standard or jitter-robust).
+// file and an impossible --at are refused with one line; with the shipped model, forecast names the
+// pair readout it used (standard or jitter-robust).
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
