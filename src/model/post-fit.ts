@@ -55,25 +55,32 @@ export function postFitOne(model: CouplingModel, input: PostFitInput): PostFitRe
 export async function postFit(model: CouplingModel, twin: CouplingModel | null, input: PostFitInput, threads: number): Promise<{ model: PostFitResult; twin: PostFitResult | null }> {
   if (!twin) return { model: postFitOne(model, input), twin: null };
   if (threads < 2) return { model: postFitOne(model, input), twin: postFitOne(twin, input) };
-  const pending = onWorker(twin, input);
+  const worker = onWorker(twin, input);
   // The worker's promise settles on an event, so the model's (synchronous) work here runs beside it.
-  const mine = postFitOne(model, input);
-  const theirs = await pending;
+  let mine: PostFitResult;
+  try {
+    mine = postFitOne(model, input);
+  } catch (e) {
+    // Do not leave the worker running (or its failure unobserved) when this thread's part fails.
+    await worker.stop();
+    throw e;
+  }
+  const theirs = await worker.result;
   if (theirs.readout) twin.readout = theirs.readout.dropped === null ? theirs.readout.fit!.readout : null;
   twin.spreadScale = theirs.spreadScale;
   twin.spreadAdapt = theirs.spreadAdapt;
   return { model: mine, twin: theirs };
 }
 
-/** Runs postFitOne for `model` on a worker thread and returns its result (the model itself is not changed). */
-function onWorker(model: CouplingModel, input: PostFitInput): Promise<PostFitResult> {
+/** Starts postFitOne for `model` on a worker thread: its result (the model itself is not changed), and a way to stop it. */
+function onWorker(model: CouplingModel, input: PostFitInput): { result: Promise<PostFitResult>; stop: () => Promise<void> } {
   const entry = workerEntry('post-fit-worker');
   const data: PostFitWorkerData = {
-    config: model.config, stats: model.stats, weights: Float32Array.from(model.store.valueView()),
+    config: model.config, stats: model.stats, weights: Float32Array.from(model.store.valueView()), current: model.readout,
     train: [...input.train], valid: [...input.valid], calibration: [...input.calibration], stride: input.stride, validStride: input.validStride, readout: input.readout,
   };
-  return new Promise((resolve, reject) => {
-    const worker = new Worker(entry.code, { workerData: data, eval: entry.eval });
+  const worker = new Worker(entry.code, { workerData: data, eval: entry.eval });
+  const result = new Promise<PostFitResult>((resolve, reject) => {
     worker.once('message', (m: { result?: PostFitResult; error?: string }) => {
       void worker.terminate();
       if (m.error !== undefined) reject(new Error(`post-fit worker failed: ${m.error}`));
@@ -82,4 +89,11 @@ function onWorker(model: CouplingModel, input: PostFitInput): Promise<PostFitRes
     worker.once('error', reject);
     worker.once('exit', (code) => reject(new Error(`post-fit worker stopped (exit code ${code}) before it answered`)));
   });
+  return {
+    result,
+    stop: async () => {
+      result.catch(() => undefined);
+      await worker.terminate();
+    },
+  };
 }

@@ -206,6 +206,7 @@ export interface ReadoutSummaryJson {
   lambda: number | null;
   train_windows: number;
   valid_windows: number;
+  /** The standard readout's fit on its held-out windows (clean windows and their mildly jittered copies): before, after at its weight, per weight. */
   valid_knot_error_before: number | null;
   valid_knot_error_after: number | null;
   valid_knot_error: { lambda: number; error: number }[];
@@ -215,7 +216,7 @@ export interface ReadoutSummaryJson {
   valid_knot_error_mild: KnotErrorPair | null;
   /** The standard readout alone on the fully jittered copies. */
   valid_knot_error_jittered_clean_only: number | null;
-  /** The measured capture jitter (leg lengths) above which a window gets the robust readout (null: no switch), and that readout's ridge weight. */
+  /** The measured capture jitter (leg lengths) above which a window gets the robust readout, and that readout's ridge weight (null: no readout kept, or no switch). */
   jitter_threshold: number | null;
   robust_lambda: number | null;
   /** The robust readout's held-out knot error per ridge weight (clean and jittered windows). */
@@ -232,7 +233,7 @@ export function readoutSummaryJson(o: ReadoutOutcome | null): ReadoutSummaryJson
     valid_knot_error_before: f?.validNone ?? null, valid_knot_error_after: after !== null && Number.isFinite(after) ? after : null,
     valid_knot_error: f?.validError ?? [],
     valid_knot_error_clean: o.clean, valid_knot_error_jittered: o.jittered, valid_knot_error_mild: o.mild, valid_knot_error_jittered_clean_only: o.jitteredCleanOnly,
-    jitter_threshold: f?.readout.jitter?.threshold ?? null, robust_lambda: f?.readout.jitter ? o.robust!.readout.lambda : null,
+    jitter_threshold: o.dropped === null ? f!.readout.jitter?.threshold ?? null : null, robust_lambda: o.dropped === null && f!.readout.jitter ? o.robust!.readout.lambda : null,
     robust_valid_knot_error: o.robust?.validError ?? [],
   };
 }

@@ -18,8 +18,9 @@
 // Capture jitter: fitted on clean synthetic motion, the readout's weights on the last few lags act as
 // differences and amplify a noisy capture's frame-to-frame jitter. A second, jitter-robust readout is
 // fitted with jittered copies of the training windows added (readout-fit.ts); a window whose measured
-// jitter (captureJitter: its positions' fourth differences over the last second) lies above a threshold
-// picked on the held-out windows is corrected by that one instead.
+// jitter (captureJitter: its positions' fourth differences over the last second) lies well above that of
+// the clean training windows (readout-fit.ts jitterThreshold) is corrected by that one instead. The choice
+// reads every node's jitter, also in the twin's readout: it carries the capture's quality, not its motion.
 import { STATE_SIZE } from '../motion/reflect.js';
 import { choleskyFactor, choleskySolveFactored } from '../nn/cholesky.js';
 import { registeredStrideForecast, strideForecast } from './baselines.js';

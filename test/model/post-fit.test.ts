@@ -1,6 +1,6 @@
 // The post-fit phase (src/model/post-fit.ts): the twin's readout and spread calibration on a worker
-// thread give the same bits as on the calling thread, and the model's own are not changed by where the
-// twin's ran.
+// thread give the same bits as on the calling thread, also when only the spread is recalibrated (the
+// readouts kept), and the model's own are not changed by where the twin's ran.
 import { describe, expect, it } from 'vitest';
 import { resolveModelConfig } from '../../src/model/config.js';
 import { createModel, type CouplingModel } from '../../src/model/model.js';
@@ -29,5 +29,16 @@ describe('post-fit phase', () => {
     }
     expect(two.twin!.readout!.fit!.validError).toEqual(one.twin!.readout!.fit!.validError);
     expect(two.twin!.readout!.jittered).toEqual(one.twin!.readout!.jittered);
-  }, 120_000);
+    // Spread only (the readouts kept): the worker calibrates the twin with its readout, as one thread does.
+    // The twin gets its fitted readout whether or not the keep test took it, so that one is there to calibrate with.
+    t1.readout = one.twin!.readout!.fit!.readout;
+    t2.readout = structuredClone(t1.readout);
+    const spreadOnly = { ...input, readout: false };
+    const [a, b] = [await postFit(m1, t1, spreadOnly, 1), await postFit(m2, t2, spreadOnly, 2)];
+    expect(a.twin!.readout).toBeNull();
+    expect(t2.readout).not.toBeNull();
+    expect(b.twin!.spreadScale).toBe(a.twin!.spreadScale);
+    expect(t2.spreadScale).toBe(t1.spreadScale);
+    expect(m2.spreadScale).toBe(m1.spreadScale);
+  }, 180_000);
 });
