@@ -70,7 +70,15 @@ function readoutLine(name: string, o: ReadoutOutcome | null): string {
   if (!r) return `${name}: no readout (no stride prior)`;
   const milli = (x: number | null) => (x === null ? '-' : (1000 * x).toFixed(1));
   const kept = r.kept ? `lambda ${r.lambda}` : `none kept: ${r.dropped}`;
-  return `${name} readout (${r.senders ?? '-'}): ${kept}; ${r.train_windows} training windows; held-out knot error ${milli(r.valid_knot_error_clean?.before ?? null)} -> ${milli(r.valid_knot_error_clean?.after ?? null)} milli-leg-lengths on ${r.valid_windows} windows (${r.valid_knot_error.map((e) => `${e.lambda}: ${milli(e.error)}`).join(', ')}); with mild capture jitter ${milli(r.valid_knot_error_mild?.before ?? null)} -> ${milli(r.valid_knot_error_mild?.after ?? null)}, with full ${milli(r.valid_knot_error_jittered?.before ?? null)} -> ${milli(r.valid_knot_error_jittered?.after ?? null)} (standard readout alone ${milli(r.valid_knot_error_jittered_clean_only)}); robust readout ${r.jitter_threshold !== null ? `lambda ${r.robust_lambda} above a jitter of ${milli(r.jitter_threshold)}` : 'not used'} (${r.robust_valid_knot_error.map((e) => `${e.lambda}: ${milli(e.error)}`).join(', ')})`;
+  const pair = (e: { before: number; after: number } | null) => `${milli(e?.before ?? null)} -> ${milli(e?.after ?? null)}`;
+  const perWeight = (xs: { lambda: number; error: number }[]) => xs.map((e) => `${e.lambda}: ${milli(e.error)}`).join(', ');
+  const robust = r.jitter_threshold !== null ? `lambda ${r.robust_lambda} above a jitter of ${milli(r.jitter_threshold)}` : 'not used';
+  return [
+    `${name} readout (${r.senders ?? '-'}): ${kept}; ${r.train_windows} training windows`,
+    `held-out knot error ${pair(r.valid_knot_error_clean)} milli-leg-lengths on ${r.valid_windows} windows (${perWeight(r.valid_knot_error)})`,
+    `with mild capture jitter ${pair(r.valid_knot_error_mild)}, with full ${pair(r.valid_knot_error_jittered)} (standard readout alone ${milli(r.valid_knot_error_jittered_clean_only)})`,
+    `robust readout ${robust} (${perWeight(r.robust_valid_knot_error)})`,
+  ].join('; ');
 }
 if (v['spread-only'] || v['readout-only']) {
   // Refit the pair readouts (with --readout-only) and recalibrate the forecast spread of an existing model file and its
@@ -97,16 +105,17 @@ if (v['spread-only'] || v['readout-only']) {
 const tCohort = performance.now() - t0;
 const bar = progressBar('train', Boolean(v.quiet || v.json));
 let phase = 'model';
-const phaseStart: Record<string, number> = {};
+// Start of each phase in order (model, twin, post-fit, then the normative figures), for the wall time of each.
+const marks: [string, number][] = [];
 const pair = await fitPair(takes, {
   config: v.config ? (JSON.parse(v.config) as Record<string, never>) : undefined, learningRate: v.lr ? Number(v.lr) : undefined, twin: !v['no-twin'],
   epochs: recipe.epochs, seed: recipe.seed, windowStride: recipe.windowStride, threads: recipe.threads, calibrationTakes: calibrationTakes(),
-  onPhase: (p) => { phase = p; phaseStart[p] = performance.now(); },
+  onPhase: (p) => { phase = p; marks.push([p, performance.now()]); },
   onProgress: (p) => bar.update(p.epoch * p.stepsPerEpoch + p.step, p.epochs * p.stepsPerEpoch, `${phase} epoch ${p.epoch + 1}/${p.epochs} loss ${p.trainLoss.toFixed(3)}${Number.isFinite(p.validLoss) ? ` held-out ${p.validLoss.toFixed(3)}` : ''}`),
 });
 bar.stop();
 // Normative coupling figures from the normative cohort (48 walkers of their own seeds, never trained on).
-const tNorms = performance.now();
+marks.push(['norms', performance.now()]);
 const norms = cohortNorms(pair.model);
 savePair(output, pair, { [COUPLING_NORMS_KEY]: norms });
 const seconds = (performance.now() - t0) / 1000;
@@ -114,9 +123,8 @@ const s = pair.summary;
 const report = {
   output, bytes: statSync(output).size, recipe, subjects: cohort.length, groups: Object.fromEntries(['normal', 'impaired', 'variable'].map((g) => [g, cohort.filter((c) => c.group === g).length])),
   cohort_s: Math.round(tCohort / 100) / 10, total_s: Math.round(seconds * 10) / 10,
-  // Wall time of each phase: training the model and the twin, their readouts and spread calibration, the normative figures.
-  phase_s: Object.fromEntries([['model', phaseStart.model, phaseStart.twin ?? phaseStart['post-fit']], ['twin', phaseStart.twin, phaseStart['post-fit']], ['post-fit', phaseStart['post-fit'], tNorms], ['norms', tNorms, performance.now()]]
-    .filter(([, a, b]) => a !== undefined && b !== undefined).map(([k, a, b]) => [k, Math.round(((b as number) - (a as number)) / 100) / 10])),
+  // Wall time of each phase: from its start to the next one's (the last to now).
+  phase_s: Object.fromEntries(marks.map(([k, t], i) => [k, Math.round(((marks[i + 1]?.[1] ?? performance.now()) - t) / 100) / 10])),
   model: { epochs_run: s.epochs, best_epoch: s.bestEpoch + 1, steps: s.steps, ms_per_step: Math.round(s.msPerStep), valid_loss: s.best?.total ?? null, valid_forecast_mm: s.validForecastMm.map((x) => Math.round(x * 10) / 10), kl_static_per_dim: s.best?.klStaticPerDim ?? null, kl_dynamic_per_dim: s.best?.klDynamicPerDim ?? null },
   twin: pair.twinSummary ? { epochs_run: pair.twinSummary.epochs, best_epoch: pair.twinSummary.bestEpoch + 1, ms_per_step: Math.round(pair.twinSummary.msPerStep), valid_forecast_mm: pair.twinSummary.validForecastMm.map((x) => Math.round(x * 10) / 10) } : null,
   spread: pair.spread,

@@ -14,7 +14,7 @@ import { observedPoints, pointOfStep, totalPoints } from './config.js';
 import { decoderFactors, decoderForward } from './decoder.js';
 import { encoderForward, type Batch } from './encoder.js';
 import { stridePriorScratch, stridePriorSteps, type CouplingModel, type StridePriorScratch } from './model.js';
-import { captureJitter, readoutCorrection, readoutFor, readoutScratch, type ReadoutScratch } from './readout.js';
+import { readoutCorrection, readoutScratch, type ReadoutScratch } from './readout.js';
 import { backcastError, backcastScratch, spreadFactor, type BackcastScratch } from './spread.js';
 import { createWorkspace, type Workspace } from './workspace.js';
 
@@ -47,7 +47,7 @@ export interface ForecastResult {
    * jitter lay above the model's threshold), or null (no readout, or a window without its full history).
    */
   readout: ReadoutUsed;
-  /** The window's measured capture jitter (readout.ts captureJitter, leg lengths; null where no readout ran). */
+  /** The window's measured capture jitter (readout.ts captureJitter, leg lengths; null where no readout ran or it has no jitter switch). */
   captureJitter: number | null;
 }
 
@@ -65,8 +65,8 @@ export interface Forecaster {
   backcast: BackcastScratch;
   /** With the stride prior: its steps tiled over the samples (forecast × samples × N × 6) and work arrays. */
   prior: { tiled: Buf; steps: Float64Array; scratch: StridePriorScratch } | null;
-  /** With a pair readout: its work arrays, the correction of the current window (forecast × N × 3), and which readout made it at what measured jitter. */
-  readout: { scratch: ReadoutScratch; correction: Float64Array; used: ReadoutUsed; jitter: number | null } | null;
+  /** With a pair readout: its work arrays and the correction of the current window (forecast × N × 3); the scratch records which readout made it. */
+  readout: { scratch: ReadoutScratch; correction: Float64Array; used: ReadoutUsed } | null;
 }
 
 /** Returns a forecaster (work buffers) for `samples` samples per forecast. */
@@ -79,7 +79,7 @@ export function createForecaster(model: CouplingModel, samples = 20): Forecaster
   const sampleWs = createWorkspace(model, samples);
   for (const rc of sampleWs.rollout) rc.keep = false;
   const prior = c.stridePrior ? { tiled: model.store.alloc(c.forecast * samples * W), steps: new Float64Array(c.forecast * W), scratch: stridePriorScratch(c) } : null;
-  const readout = model.readout ? { scratch: readoutScratch(c), correction: new Float64Array(c.forecast * c.nodes * 3), used: null, jitter: null } : null;
+  const readout = model.readout ? { scratch: readoutScratch(c), correction: new Float64Array(c.forecast * c.nodes * 3), used: null } : null;
   return { model, sampleCount: samples, encoderWs: createWorkspace(model, 1), sampleWs, batch, prior, backcast: backcastScratch(c), readout };
 }
 
@@ -151,7 +151,7 @@ export function decodePaths(fc: Forecaster, win: Window, rng: Pcg32, staticFacto
     s.roll.set(rc.out.subarray(0, step) as never, (f + 1) * step);
     for (let m = 0; m < Sm; m++) paths.set(rc.out.subarray(m * W, (m + 1) * W) as never, (m * F + f) * W);
   }
-  if (fc.readout) { fc.readout.used = null; fc.readout.jitter = null; }
+  if (fc.readout) fc.readout.used = null;
   if (model.readout) addReadout(fc, win, paths);
   return paths;
 }
@@ -160,13 +160,10 @@ export function decodePaths(fc: Forecaster, win: Window, rng: Pcg32, staticFacto
 function addReadout(fc: Forecaster, win: Window, paths: Float64Array): void {
   const { model } = fc, c = model.config, N = c.nodes, W = N * STATE_SIZE, F = c.forecast, sd = model.stats.sd;
   // Made here on first use, so a forecaster built before the readout was fitted applies it too.
-  fc.readout ??= { scratch: readoutScratch(c), correction: new Float64Array(F * N * 3), used: null, jitter: null };
+  fc.readout ??= { scratch: readoutScratch(c), correction: new Float64Array(F * N * 3), used: null };
   const d = readoutCorrection(c, model.readout!, win.history, win.historySteps, fc.readout.scratch, fc.readout.correction);
   if (!d) return;
-  // readoutCorrection left the window's history positions in the scratch.
-  const jitter = captureJitter(fc.readout.scratch.positions, win.historySteps, N);
-  fc.readout.jitter = jitter;
-  fc.readout.used = readoutFor(model.readout!, jitter) === model.readout ? 'standard' : 'jitter-robust';
+  fc.readout.used = fc.readout.scratch.robust ? 'jitter-robust' : 'standard';
   for (let f = 0; f < F; f++)
     for (let n = 0; n < N; n++)
       for (let a = 0; a < 3; a++) {
@@ -215,5 +212,5 @@ export function forecast(model: CouplingModel, win: Window, options: ForecastOpt
   const meanState = toWorld(fc, win, meanNorm);
   const mean = new Float64Array(F * N * 3);
   positionsOf(meanState, mean, 0);
-  return { steps: F, nodeCount: N, sampleCount: Sm, mean, samples, meanState, readout: fc.readout?.used ?? null, captureJitter: fc.readout?.jitter ?? null };
+  return { steps: F, nodeCount: N, sampleCount: Sm, mean, samples, meanState, readout: fc.readout?.used ?? null, captureJitter: fc.readout?.used ? fc.readout.scratch.jitter : null };
 }

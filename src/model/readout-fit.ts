@@ -54,20 +54,17 @@ export function readoutData(model: CouplingModel, takes: readonly TrainingTake[]
   model.readout = null;
   try {
     const fc = createForecaster(model, FIT_SAMPLES), scratch = readoutScratch(c), mean = new Float64Array(F * W);
-    const out: ReadoutData = { features: [], targets: [], jittered: [], jitter: [], copy: [] };
+    const out: ReadoutData = { features: [], targets: [], jitter: [], copy: [] };
     const push = (features: Float64Array, target: Float64Array, copy: number, mirror: Int32Array) => {
-      const jittered = copy >= 0;
       // The mirror image has the same jitter (a reflection keeps every distance).
       const jitter = captureJitter(scratch.positions, readoutHistory(c), N);
       out.features.push(features);
       out.targets.push(target);
-      out.jittered!.push(jittered);
       out.jitter!.push(jitter);
       out.copy!.push(copy);
       if (!options.mirror) return;
       out.features.push(mirrorNodeVectors(features, mirror, new Float64Array(features.length)));
       out.targets.push(mirrorNodeVectors(target, mirror, new Float64Array(N * K * 3)));
-      out.jittered!.push(jittered);
       out.jitter!.push(jitter);
       out.copy!.push(copy);
     };
@@ -102,7 +99,7 @@ export function readoutData(model: CouplingModel, takes: readonly TrainingTake[]
 function subset(data: ReadoutData, copies: readonly number[]): ReadoutData {
   const keep = data.features.map((_, i) => copies.includes(data.copy?.[i] ?? -1));
   const pick = <T>(xs: T[] | undefined) => xs?.filter((_, i) => keep[i]);
-  return { features: pick(data.features)!, targets: pick(data.targets)!, jittered: pick(data.jittered), jitter: pick(data.jitter), copy: pick(data.copy) };
+  return { features: pick(data.features)!, targets: pick(data.targets)!, jitter: pick(data.jitter), copy: pick(data.copy) };
 }
 
 /** Returns the recorded future minus the decoded mean (window frame, leg lengths) at the knots, nodes × knots × 3. */

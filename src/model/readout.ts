@@ -120,7 +120,12 @@ export function readoutHistory(c: ModelConfig): number {
 }
 
 /** Work arrays of the readout for one configuration. */
-export interface ReadoutScratch { positions: Float64Array; prior: Float64Array; back: Float64Array; features: Float64Array; standardised: Float64Array; knots: Float64Array }
+export interface ReadoutScratch {
+  positions: Float64Array; prior: Float64Array; back: Float64Array; features: Float64Array; standardised: Float64Array; knots: Float64Array;
+  /** What the last readoutCorrection measured and used: the window's captureJitter (null without a switch) and whether the robust readout ran. */
+  jitter: number | null;
+  robust: boolean;
+}
 
 /** Returns work arrays for readoutFeatures and readoutCorrection. */
 export function readoutScratch(c: ModelConfig): ReadoutScratch {
@@ -128,6 +133,7 @@ export function readoutScratch(c: ModelConfig): ReadoutScratch {
   return {
     positions: new Float64Array(readoutHistory(c) * N * 3), prior: new Float64Array(c.forecast * N * 3), back: new Float64Array(READOUT_BACKCAST * N * 3),
     features: new Float64Array(N * readoutFeaturesPerNode(c)), standardised: new Float64Array(N * readoutFeaturesPerNode(c)), knots: new Float64Array(N * readoutKnots(c).length * 3),
+    jitter: null, robust: false,
   };
 }
 
@@ -215,11 +221,11 @@ export function mirrorNodeVectors(values: Float64Array, nodeMirror: Int32Array, 
 }
 
 /**
- * Fitting data: features (nodes × perNode) and targets (nodes × knots × 3) per window; `jittered` marks
- * the augmented copies (absent: none) and `copy` which one (−1: the clean window), `jitter` holds each
- * window's captureJitter (absent: 0).
+ * Fitting data: features (nodes × perNode) and targets (nodes × knots × 3) per window; `copy` says which
+ * window is an augmented copy (−1: the clean window, k ≥ 0: its k-th jittered copy; absent: all clean),
+ * `jitter` holds each window's captureJitter (absent: 0).
  */
-export interface ReadoutData { features: Float64Array[]; targets: Float64Array[]; jittered?: boolean[]; jitter?: number[]; copy?: number[] }
+export interface ReadoutData { features: Float64Array[]; targets: Float64Array[]; jitter?: number[]; copy?: number[] }
 
 /** Result of fitReadout: the readout and the held-out error of every ridge weight tried. */
 export interface ReadoutFit {
@@ -319,12 +325,16 @@ export function fitReadout(c: ModelConfig, senders: ReadoutSenders, train: Reado
 /**
  * Returns the correction of every forecast step (forecast × N × 3, window frame, leg lengths) of a
  * window's history, or null without full history; with a jitter switch, a window of high captureJitter
- * gets the robust readout's.
+ * gets the robust readout's (scratch.jitter and scratch.robust record which).
  */
 export function readoutCorrection(c: ModelConfig, r: PairReadout, history: ArrayLike<number>, historySteps: number, scratch: ReadoutScratch, out: Float64Array): Float64Array | null {
+  scratch.jitter = null;
+  scratch.robust = false;
   const f = readoutFeatures(c, history, historySteps, scratch);
   if (!f) return null;
-  const use = r.jitter ? readoutFor(r, captureJitter(scratch.positions, historySteps, c.nodes)) : r;
+  scratch.jitter = r.jitter ? captureJitter(scratch.positions, historySteps, c.nodes) : null;
+  const use = scratch.jitter === null ? r : readoutFor(r, scratch.jitter);
+  scratch.robust = use !== r;
   readoutKnotValues(use, f, c.nodes, scratch.knots, scratch.standardised);
   return spreadKnots(r.knots, scratch.knots, c.nodes, c.forecast, out);
 }
