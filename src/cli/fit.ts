@@ -4,6 +4,7 @@ import { basename, dirname } from 'node:path';
 import { InputError } from '../errors/index.js';
 import { trackFromImported } from '../motion/track.js';
 import type { TrainingTake } from '../model/batch.js';
+import { TAKE_SIGNATURE_WEIGHT } from '../model/config.js';
 import { fitPair, savePair } from '../model/pair-fit.js';
 import { readoutSummaryJson } from '../model/readout-fit.js';
 import { takeIdentity } from '../score/identity.js';
@@ -24,6 +25,7 @@ interface FitFlags extends ImportFlags {
   twin: boolean;
   matchPairing: boolean;
   restrictedLabeling: boolean;
+  takeSignature?: boolean;
   quiet?: boolean;
   json?: boolean;
 }
@@ -49,6 +51,7 @@ export function register(program: Command): void {
     .option('--no-twin', 'skip the no-coupling twin (forecast then reports no no_coupling figures)')
     .option('--no-match-pairing', 'ablation: windows drawn in pairs from one take no longer share their static factors')
     .option('--no-restricted-labeling', 'ablation: no dynamic dimensions tied to the gait phase')
+    .option('--take-signature', "experiment: train the static factors to carry each pair's take-level signature (relative motion and velocity coupling over the whole take); off in the shipped model")
     .option('--quiet', 'no progress bar')
     .option('--json', 'print the training summary as JSON');
   withImportOptions(cmd).action(async (paths: string[], flags: FitFlags) => {
@@ -68,7 +71,7 @@ export function register(program: Command): void {
       threads: flags.threads,
       seed: flags.seed,
       twin: flags.twin,
-      config: { matchPairing: flags.matchPairing, restrictedLabeling: flags.restrictedLabeling },
+      config: { matchPairing: flags.matchPairing, restrictedLabeling: flags.restrictedLabeling, signatureWeight: flags.takeSignature ? TAKE_SIGNATURE_WEIGHT : 0 },
       onPhase: (p) => { phase = p; },
       onProgress: (p) => bar.update(p.epoch * p.stepsPerEpoch + p.step, p.epochs * p.stepsPerEpoch, `${phase} epoch ${p.epoch + 1}/${p.epochs} loss ${p.trainLoss.toFixed(3)}${Number.isFinite(p.validLoss) ? ` held-out ${p.validLoss.toFixed(3)}` : ''}`),
     });
@@ -78,7 +81,7 @@ export function register(program: Command): void {
     const summary = {
       output: flags.output, takes: files.length, subjects: [...new Set(takes.map((t) => t.subject))].length,
       train_subjects: s.trainSubjects, valid_subjects: s.validSubjects, epochs_run: s.epochs, best_epoch: s.bestEpoch, steps: s.steps,
-      match_pairing: flags.matchPairing, restricted_labeling: flags.restrictedLabeling,
+      match_pairing: flags.matchPairing, restricted_labeling: flags.restrictedLabeling, take_signature: flags.takeSignature === true,
       valid_loss: s.validLoss[s.bestEpoch] ?? null, ms_per_step: s.msPerStep, spread_scale: pair.spread,
       twin: pair.twinSummary ? { best_epoch: pair.twinSummary.bestEpoch, valid_loss: pair.twinSummary.validLoss[pair.twinSummary.bestEpoch] ?? null } : null,
       readout: { model: readoutSummaryJson(pair.readout.model), twin: readoutSummaryJson(pair.readout.twin) },

@@ -6,10 +6,12 @@ import { frameNodes, type FrameNodes } from '../motion/frame.js';
 import { normalise, type MotionStats } from '../motion/normalise.js';
 import type { Track } from '../motion/track.js';
 import { allocateWindow, fillWindow, resolveWindowOptions, windowEnds, type ResolvedWindowOptions, type Window } from '../motion/window.js';
+import { allOrderedPairs } from '../nn/pairs.js';
 import type { ParamStore } from '../nn/params.js';
 import type { Buf } from '../nn/types.js';
 import { modelWindowOptions, observedPoints, pointStep, type ModelConfig } from './config.js';
 import type { Batch } from './encoder.js';
+import { mirroredPairs, SIGNATURE_FEATURES } from './signature.js';
 import { stridePriorScratch, stridePriorSteps, strideReconSteps, type StridePriorScratch } from './model.js';
 
 /** One take the model learns from. */
@@ -23,6 +25,11 @@ export interface TrainingTake {
    * side's cycle). Null: no labels from this take.
    */
   phase?: Float64Array | null;
+  /**
+   * Standardised take signature (pairs × SIGNATURE_FEATURES, signature.ts) the static factors are trained to
+   * carry; null or absent: no signature term for this take's windows. Set by prepareTraining.
+   */
+  signature?: Float64Array | null;
 }
 
 /** A window of a take: its last observed step and whether it is left/right mirrored. */
@@ -53,11 +60,18 @@ export class BatchBuilder {
   /** Stride prior steps and recon steps of windows already seen, by window (the prior is a pure function of it). */
   private readonly priorCache = new Map<number, Buf>();
   private priorCacheBytes = 0;
+  /** Mirror image of each pair, for the signatures of mirrored windows (null: no take has a signature). */
+  private readonly signatureMirror: Int32Array | null = null;
 
   /** A builder for batches of `size` windows of `takes`, normalised by `stats`, in the store's precision. */
   constructor(private readonly config: ModelConfig, private readonly stats: MotionStats, private readonly takes: readonly TrainingTake[], size: number, store: ParamStore) {
     const steps = config.observe + config.forecast, W = config.nodes * 6;
     this.batch = { size, state: store.alloc(steps * size * W), group: new Int32Array(size), phase: new Float64Array(size * observedPoints(config)) };
+    if (takes.some((t) => t.signature)) {
+      const pairs = allOrderedPairs(config.nodes);
+      this.batch.signature = new Float64Array(size * pairs.count * SIGNATURE_FEATURES);
+      this.signatureMirror = mirroredPairs(pairs, takes[0]!.track.nodeMirror);
+    }
     if (config.stridePrior) {
       this.batch.prior = store.alloc(config.forecast * size * W);
       this.batch.priorRecon = store.alloc(config.reconSteps * size * W);
@@ -98,8 +112,22 @@ export class BatchBuilder {
         const ph = take.phase ? take.phase[ref.end - T + 1 + pointStep(c, j)] : undefined;
         this.batch.phase[b * K + j] = ph === undefined || !Number.isFinite(ph) ? NaN : ref.mirrored ? ph + Math.PI : ph;
       }
+      if (this.batch.signature) this.fillSignature(take.signature ?? null, ref.mirrored, b);
     }
     return this.batch;
+  }
+
+  /** Writes window b's signature (pair k of a mirrored window takes the take's pair m(k)); NaN without one. */
+  private fillSignature(sig: Float64Array | null, mirrored: boolean, b: number): void {
+    const G = SIGNATURE_FEATURES, m = this.signatureMirror!, P = m.length, out = this.batch.signature!, o = b * P * G;
+    if (!sig) {
+      out.fill(NaN, o, o + P * G);
+      return;
+    }
+    for (let k = 0; k < P; k++) {
+      const from = (mirrored ? m[k]! : k) * G;
+      for (let g = 0; g < G; g++) out[o + k * G + g] = sig[from + g]!;
+    }
   }
 
   /**

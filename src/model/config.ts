@@ -86,7 +86,18 @@ export interface ModelConfig {
    * near 0; measured on the default recipe, 12.0 per window against 1.4 at 272).
    */
   labelWeight: number;
+  /**
+   * Weight of the take-signature term (signature.ts): squared distance, averaged over the ordered pairs, of
+   * a linear read of each pair's static sample from the pair's standardised take-level signature. Off (0) by
+   * default: it made the static factors take-stable but cost the walker-made asymmetry arm its AUC
+   * (measured in DEVELOPERS.md); `fit --take-signature` sets TAKE_SIGNATURE_WEIGHT. A model file whose
+   * configuration lacks the field was trained without it (modelfile.ts).
+   */
+  signatureWeight: number;
 }
+
+/** The take-signature weight `fit --take-signature` uses: the pair count of 17 nodes, so each pair's signature weighs as its own KL term (as for the labels). */
+export const TAKE_SIGNATURE_WEIGHT = 272;
 
 /** Returns the default configuration (hidden width 32, 4 static and 4 dynamic dimensions, the stride prior on). */
 export function defaultModelConfig(): ModelConfig {
@@ -115,6 +126,7 @@ export function defaultModelConfig(): ModelConfig {
     matchPairing: true,
     restrictedLabeling: true,
     labelWeight: 272,
+    signatureWeight: 0,
     noiseFloor: 1e-3,
   };
 }
@@ -144,7 +156,7 @@ export function resolveModelConfig(partial: Partial<ModelConfig> = {}): ModelCon
   if (c.reconSteps > c.observe - 1) throw new RangeError(`reconSteps (${c.reconSteps}) must be at most observe − 1 (${c.observe - 1})`);
   if (c.restrictedLabeling && c.dynamicDims < 2) throw new RangeError('restricted labeling needs at least 2 dynamic dimensions');
   if (!(c.residualScale > 0) || !Number.isFinite(c.residualScale)) throw new RangeError('model config residualScale must be a positive number');
-  for (const k of ['rolloutWeight', 'beta', 'staticBeta', 'labelWeight', 'noiseFloor'] as const)
+  for (const k of ['rolloutWeight', 'beta', 'staticBeta', 'labelWeight', 'signatureWeight', 'noiseFloor'] as const)
     if (!(c[k] >= 0) || !Number.isFinite(c[k])) throw new RangeError(`model config ${k} must be a finite number ≥ 0`);
   if (!(c.rate > 0) || !Number.isFinite(c.rate)) throw new RangeError('model config rate must be a positive number of steps per second');
   for (const k of ['kinematic', 'stridePrior', 'priorRegistration', 'noCoupling', 'matchPairing', 'restrictedLabeling'] as const)

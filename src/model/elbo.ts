@@ -1,5 +1,6 @@
 // The training objective: the negative evidence lower bound of a batch, per window,
 //   loss = recon + rolloutWeight · rollout + β_s · KL static + β · KL dynamic + labelWeight · label
+//          + signatureWeight · signature
 // recon    one-step teacher-forced Gaussian NLL of the last `reconSteps` observed transitions (learned
 //          per-feature noise);
 // rollout  Gaussian NLL of the forecast steps decoded from the last observed state with the decoder's own
@@ -10,7 +11,9 @@
 // KL       (not with noCoupling, which runs no encoder) static factors against N(0, 1), the first dynamic point against N(0, 1) and every later one
 //          against the learned autoregressive prior given the previous sample; reported per dimension;
 // label    restricted labeling: squared distance of dynamic dimensions 0 and 1's posterior means (averaged
-//          over pairs) from sin and cos of the gait phase, where the phase is known.
+//          over pairs) from sin and cos of the gait phase, where the phase is known;
+// signature squared distance of the static sample's linear read s_ij·sigW + sigB (averaged over pairs) from
+//          the pair's standardised take signature (signature.ts), where the batch carries one.
 // elboForward computes the loss; elboBackward (after it) accumulates the gradient of the loss into the
 // store's gradient buffer.
 import { STATE_SIZE } from '../motion/reflect.js';
@@ -20,6 +23,7 @@ import { observedPoints, pointOfStep, totalPoints } from './config.js';
 import { decoderBackward, decoderFactors, decoderFactorsBackward, decoderForward } from './decoder.js';
 import { encoderBackward, encoderForward, type Batch } from './encoder.js';
 import type { CouplingModel } from './model.js';
+import { SIGNATURE_FEATURES } from './signature.js';
 import type { Workspace } from './workspace.js';
 
 /** The terms of the loss, each per window (summed over steps, nodes and dimensions). */
@@ -30,6 +34,7 @@ export interface LossReport {
   klStatic: number;
   klDynamic: number;
   label: number;
+  signature: number;
   /** KL per factor dimension, per window. */
   klStaticPerDim: number[];
   klDynamicPerDim: number[];
@@ -79,9 +84,10 @@ export function elboForward(model: CouplingModel, ws: Workspace, batch: Batch, r
   }
   klD *= inv;
   const label = coupled && c.restrictedLabeling ? labelLoss(model, ws, batch, null) * inv : 0;
-  const total = recon + c.rolloutWeight * rollout + c.staticBeta * klS + c.beta * klD + c.labelWeight * label;
+  const signature = signatureActive(model, batch) ? signatureLoss(model, ws, batch, null) * inv : 0;
+  const total = recon + c.rolloutWeight * rollout + c.staticBeta * klS + c.beta * klD + c.labelWeight * label + c.signatureWeight * signature;
   return {
-    total, recon, rollout, klStatic: klS, klDynamic: klD, label,
+    total, recon, rollout, klStatic: klS, klDynamic: klD, label, signature,
     klStaticPerDim: Array.from(ws.perDimStatic, (v) => v * inv),
     klDynamicPerDim: Array.from(ws.perDimDynamic, (v) => v * inv),
   };
@@ -108,6 +114,50 @@ function labelLoss(model: CouplingModel, ws: Workspace, batch: Batch, scale: num
         }
       }
     }
+  return total;
+}
+
+/** Whether the signature term runs on this batch: switched on, coupled, and the batch carries signatures. */
+function signatureActive(model: CouplingModel, batch: Batch): boolean {
+  return model.config.signatureWeight > 0 && model.params.sigW !== null && batch.signature !== undefined;
+}
+
+/**
+ * Returns Σ over windows, pairs and features of (s_bk·sigW + sigB − y_bk)² / P for the windows with a
+ * signature. With `scale` non-null, writes scale times its gradient on the static samples into ws.dsSig and
+ * adds it on sigW and sigB.
+ */
+function signatureLoss(model: CouplingModel, ws: Workspace, batch: Batch, scale: number | null): number {
+  const c = model.config, B = batch.size, S = c.staticDims, G = SIGNATURE_FEATURES, P = ws.pairs.count;
+  const w = model.params.sigW!.value, bias = model.params.sigB!.value, y = batch.signature!;
+  const gw = model.params.sigW!.grad, gb = model.params.sigB!.grad;
+  if (scale !== null) ws.dsSig.fill(0, 0, B * P * S);
+  const e = new Float64Array(G);
+  let total = 0;
+  for (let b = 0; b < B; b++) {
+    if (!Number.isFinite(y[b * P * G]!)) continue;
+    for (let k = 0; k < P; k++) {
+      const r = b * P + k, sv = r * S, yo = r * G;
+      for (let g = 0; g < G; g++) {
+        let v = bias[g]!;
+        for (let d = 0; d < S; d++) v += ws.sS[sv + d]! * w[d * G + g]!;
+        e[g] = v - y[yo + g]!;
+        total += (e[g]! * e[g]!) / P;
+      }
+      if (scale === null) continue;
+      const f = (2 * scale) / P;
+      for (let g = 0; g < G; g++) gb[g] = gb[g]! + f * e[g]!;
+      for (let d = 0; d < S; d++) {
+        const sd = ws.sS[sv + d]!;
+        let acc = 0;
+        for (let g = 0; g < G; g++) {
+          gw[d * G + g] = gw[d * G + g]! + f * e[g]! * sd;
+          acc += w[d * G + g]! * e[g]!;
+        }
+        ws.dsSig[sv + d] = f * acc;
+      }
+    }
+  }
   return total;
 }
 
@@ -152,5 +202,7 @@ export function elboBackward(model: CouplingModel, ws: Workspace, batch: Batch):
     klGaussiansBackward(ws.muD.subarray(blk), ws.lvD.subarray(blk), ws.muP.subarray(blk), ws.lvP.subarray(blk), (K - 1) * blk, kb,
       ws.dmuD.subarray(blk), ws.dlvD.subarray(blk), ws.dmuP.subarray(blk), ws.dlvP.subarray(blk));
   if (c.restrictedLabeling) labelLoss(model, ws, batch, c.labelWeight * inv);
-  encoderBackward(model, ws, batch);
+  const signed = signatureActive(model, batch);
+  if (signed) signatureLoss(model, ws, batch, c.signatureWeight * inv);
+  encoderBackward(model, ws, batch, signed ? ws.dsSig : null);
 }

@@ -33,6 +33,8 @@ export interface Batch {
   prior?: Buf;
   /** With the stride prior: its one-step changes of the teacher-forced transitions, reconSteps × size × N × 6. */
   priorRecon?: Buf;
+  /** Standardised take signature of each window's take, size × P × SIGNATURE_FEATURES (NaN: none); absent: no signature term. */
+  signature?: Float64Array;
 }
 
 /** How the encoder draws its samples. */
@@ -176,9 +178,10 @@ function groupAverageBackward(group: Int32Array | null, dOut: Buf, dx: Buf, B: n
 /**
  * Backward pass of encoderForward. On entry ws.dzin holds the gradient on the decoder's factor input,
  * ws.dmuD/dlvD and ws.dmuSg/dlvSg the KL and labeling gradients on the posteriors, and ws.dmuP/dlvP the
- * KL gradients on the prior of points 1 … K − 1. Accumulates every encoder and prior parameter gradient.
+ * KL gradients on the prior of points 1 … K − 1, and dStaticExtra (may be null) a further gradient on the
+ * static samples (the signature term's). Accumulates every encoder and prior parameter gradient.
  */
-export function encoderBackward(model: CouplingModel, ws: Workspace, batch: Batch): void {
+export function encoderBackward(model: CouplingModel, ws: Workspace, batch: Batch, dStaticExtra: Buf | null = null): void {
   const c = model.config, p = model.params, B = batch.size, N = c.nodes, T = c.observe;
   const H = c.hidden, E = c.pairHidden, S = c.staticDims, D = c.dynamicDims, Z = S + D;
   const K = observedPoints(c), Kt = totalPoints(c), P = ws.pairs.count, BP = B * P, BN = B * N, blk = BP * D;
@@ -191,6 +194,7 @@ export function encoderBackward(model: CouplingModel, ws: Workspace, batch: Batc
       for (let k = 0; k < S; k++) ws.dsS[i * S + k] = ws.dsS[i * S + k]! + ws.dzin[o + k]!;
       for (let k = 0; k < D; k++) ws.dd[(j * BP + i) * D + k] = ws.dzin[o + S + k]!;
     }
+  if (dStaticExtra) for (let i = 0; i < BP * S; i++) ws.dsS[i] = ws.dsS[i]! + dStaticExtra[i]!;
   // Rolled-forward points, last first: d_j = d_{j−1}·A + c.
   const A = p.priorA.value;
   for (let j = Kt - 1; j >= K; j--)

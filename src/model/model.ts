@@ -10,6 +10,7 @@ import { Pcg32 } from '../nn/prng.js';
 import { registeredStrideForecast, strideForecast } from './baselines.js';
 import { resolveModelConfig, type ModelConfig } from './config.js';
 import type { PairReadout } from './readout.js';
+import { SIGNATURE_FEATURES } from './signature.js';
 import type { SpreadAdapt } from './spread.js';
 
 /** Encoder input width per node: state 6 plus the node one-hot. */
@@ -56,6 +57,12 @@ export interface ModelParams {
   lvRecon: Param;
   /** Learned log-variance of the rollout, per forecast step and (node, component). */
   lvRollout: Param;
+  /**
+   * The signature read (signature.ts): each pair's standardised take signature ≈ s_ij·sigW + sigB, the
+   * same map for every pair. Training only; absent without the signature term or without coupling.
+   */
+  sigW: Param | null;
+  sigB: Param | null;
 }
 
 /** A coupling model: configuration, normalisation, parameters, and the forecast spread calibration. */
@@ -237,8 +244,12 @@ export function buildParams(store: ParamStore, c: ModelConfig, rng: Pcg32): Mode
   const upB2 = store.add('dec.up.b2', [STATE_SIZE], 'zeros');
   const lvRecon = store.add('noise.recon', [W], { constant: -2 });
   const lvRollout = store.add('noise.rollout', [c.forecast, W], { constant: 0 });
+  // Registered last, so model files written before the signature term keep their layout.
+  const signed = coupled && c.signatureWeight > 0;
+  const sigW = signed ? store.add('enc.sig.w', [c.staticDims, SIGNATURE_FEATURES], 'xavier', rng) : null;
+  const sigB = signed ? store.add('enc.sig.b', [SIGNATURE_FEATURES], 'zeros') : null;
   return {
     gru, staticHead, dynamicHead, priorA, priorC, priorLv,
-    msgWa, msgWb, msgWz, msgBz, gateW, gateB, upW1x, upW1m, upNode, upB1, upW2, upB2, lvRecon, lvRollout,
+    msgWa, msgWb, msgWz, msgBz, gateW, gateB, upW1x, upW1m, upNode, upB1, upW2, upB2, lvRecon, lvRollout, sigW, sigB,
   };
 }

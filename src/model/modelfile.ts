@@ -172,7 +172,8 @@ export function modelFromJson(value: unknown, source: string): LoadedModel {
   if (v.version !== MODEL_VERSION) bad(`schema version ${JSON.stringify(v.version)} is not supported (this build reads version ${MODEL_VERSION})`);
   let config: ModelConfig;
   try {
-    config = resolveModelConfig(v.config as Partial<ModelConfig>);
+    // A stored configuration without a signature weight was trained without the signature term.
+    config = resolveModelConfig({ signatureWeight: 0, ...(v.config as Partial<ModelConfig>) });
   } catch (e) {
     return bad(`its configuration is invalid (${(e as Error).message})`);
   }

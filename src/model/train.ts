@@ -13,6 +13,7 @@ import { statsOfWindows, type MotionStats } from '../motion/normalise.js';
 import { windowsOf } from '../motion/window.js';
 import { Adam, clipGlobalNorm } from '../nn/adam.js';
 import { reduceInOrder } from '../nn/params.js';
+import { allOrderedPairs } from '../nn/pairs.js';
 import { Pcg32 } from '../nn/prng.js';
 import type { Buf } from '../nn/types.js';
 import { BatchBuilder, windowRefs, type TrainingTake, type WindowRef } from './batch.js';
@@ -20,6 +21,7 @@ import { resolveModelConfig, type ModelConfig } from './config.js';
 import { elboBackward, elboForward, type LossReport } from './elbo.js';
 import { createModel, type CouplingModel } from './model.js';
 import { clampNoise, initNoiseFromData } from './noise.js';
+import { standardiseSignatures, takeSignature } from './signature.js';
 import { heldOutSplit, type HeldOutKind } from './split.js';
 import { forecastProbe, probeError } from './validate.js';
 import { createWorkspace, type Workspace } from './workspace.js';
@@ -144,13 +146,13 @@ export function evaluateLoss(model: CouplingModel, ws: Workspace, builder: Batch
     const r = elboForward(model, ws, builder.fill(b.refs, b.groups), rng);
     if (!acc) acc = { ...r, klStaticPerDim: [...r.klStaticPerDim], klDynamicPerDim: [...r.klDynamicPerDim] };
     else {
-      for (const k of ['total', 'recon', 'rollout', 'klStatic', 'klDynamic', 'label'] as const) acc[k] += r[k];
+      for (const k of ['total', 'recon', 'rollout', 'klStatic', 'klDynamic', 'label', 'signature'] as const) acc[k] += r[k];
       r.klStaticPerDim.forEach((v, i) => (acc!.klStaticPerDim[i]! += v));
       r.klDynamicPerDim.forEach((v, i) => (acc!.klDynamicPerDim[i]! += v));
     }
   }
   const n = batches.length, a = acc!;
-  for (const k of ['total', 'recon', 'rollout', 'klStatic', 'klDynamic', 'label'] as const) a[k] /= n;
+  for (const k of ['total', 'recon', 'rollout', 'klStatic', 'klDynamic', 'label', 'signature'] as const) a[k] /= n;
   a.klStaticPerDim = a.klStaticPerDim.map((v) => v / n);
   a.klDynamicPerDim = a.klDynamicPerDim.map((v) => v / n);
   return a;
@@ -223,6 +225,18 @@ export function train(takes: readonly TrainingTake[], options: TrainOptions = {}
   return r.value;
 }
 
+/**
+ * Returns the takes with their standardised take signatures attached (signature.ts; statistics from the
+ * training takes), or as given when the configuration has no signature term.
+ */
+export function withSignatures(train: readonly TrainingTake[], valid: readonly TrainingTake[], config: ModelConfig): { train: TrainingTake[]; valid: TrainingTake[] } {
+  if (!(config.signatureWeight > 0) || config.noCoupling || train.length === 0) return { train: [...train], valid: [...valid] };
+  const pairs = allOrderedPairs(config.nodes), all = [...train, ...valid];
+  const std = standardiseSignatures(all.map((t) => takeSignature(t.track, config, pairs)), train.length);
+  const out = all.map((t, i) => ({ ...t, signature: std[i] }));
+  return { train: out.slice(0, train.length), valid: out.slice(train.length) };
+}
+
 /** Returns the model and data of a training run, checked, with the noise levels initialised from data. */
 export function prepareTraining(takes: readonly TrainingTake[], options: TrainOptions = {}): TrainingContext {
   const config = resolveModelConfig(options.config);
@@ -232,7 +246,7 @@ export function prepareTraining(takes: readonly TrainingTake[], options: TrainOp
   const off = takes.find((t) => t.track.rate !== config.rate || t.track.nodeCount !== config.nodes);
   if (off) throw new InputError(`${off.track.path}: the track has ${off.track.nodeCount} nodes at ${off.track.rate} Hz; the model needs ${config.nodes} nodes at ${config.rate} Hz`);
   const split = heldOutSplit(takes, config, options.validSubjects, B, options.windowStride ?? 3);
-  const trainTakes = split.train, validTakes = split.valid;
+  const { train: trainTakes, valid: validTakes } = withSignatures(split.train, split.valid, config);
   if (trainTakes.length === 0) throw new InputError('every take belongs to a held-out subject; nothing is left to train on');
   const stats = options.stats ?? statsOfTakes(trainTakes, config);
   const model = createModel(config, stats, { seed });

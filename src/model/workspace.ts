@@ -45,6 +45,8 @@ export interface Workspace {
   preS: Buf; dPreS: Buf;
   muS: Buf; lvS: Buf; muSg: Buf; lvSg: Buf; epsS: Buf; sS: Buf;
   dmuS: Buf; dlvS: Buf; dmuSg: Buf; dlvSg: Buf; dsS: Buf;
+  /** Gradient of the signature term on the static samples (B·P × S). */
+  dsSig: Buf;
   hd: Buf; dhd: Buf;
   scratchD: PairProjectionScratch;
   preD: Buf; dPreD: Buf;
@@ -98,6 +100,7 @@ export function createWorkspace(model: CouplingModel, batch: number): Workspace 
     preS: alloc(BP * E), dPreS: alloc(BP * E),
     muS: alloc(BP * S), lvS: alloc(BP * S), muSg: alloc(BP * S), lvSg: alloc(BP * S), epsS: alloc(BP * S), sS: alloc(BP * S),
     dmuS: alloc(BP * S), dlvS: alloc(BP * S), dmuSg: alloc(BP * S), dlvSg: alloc(BP * S), dsS: alloc(BP * S),
+    dsSig: alloc(c.signatureWeight > 0 && !c.noCoupling ? BP * S : 0),
     hd: alloc(K * BN * H), dhd: alloc(K * BN * H),
     scratchD: pairScratch(alloc, K * BN * E),
     preD: alloc(K * BP * E), dPreD: alloc(K * BP * E),

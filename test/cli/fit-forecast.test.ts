@@ -38,14 +38,19 @@ describe('fit and forecast commands', () => {
     expect(file.readout).toBeUndefined();
   }, 300_000);
 
-  it('fit --no-match-pairing --no-restricted-labeling writes the ablation into the model file', async () => {
+  it('fit --no-match-pairing --no-restricted-labeling --take-signature writes the switches into the model file', async () => {
     const ablated = join(tmp, 'ablated.json');
-    const r = await runCli(['fit', join(tmp, 'P1.bvh'), join(tmp, 'P2.bvh'), join(tmp, 'P3.bvh'), '-o', ablated, '--epochs', '1', '--no-twin', '--no-match-pairing', '--no-restricted-labeling', '--json']);
+    const r = await runCli(['fit', join(tmp, 'P1.bvh'), join(tmp, 'P2.bvh'), join(tmp, 'P3.bvh'), '-o', ablated, '--epochs', '1', '--no-twin', '--no-match-pairing', '--no-restricted-labeling', '--take-signature', '--json']);
     expect(r.code).toBe(0);
     const s = JSON.parse(r.stdout);
-    expect([s.match_pairing, s.restricted_labeling]).toEqual([false, false]);
+    expect([s.match_pairing, s.restricted_labeling, s.take_signature]).toEqual([false, false, true]);
     const file = JSON.parse(readFileSync(ablated, 'utf8'));
-    expect([file.config.matchPairing, file.config.restrictedLabeling]).toEqual([false, false]);
+    expect([file.config.matchPairing, file.config.restrictedLabeling, file.config.signatureWeight]).toEqual([false, false, 272]);
+    expect(file.layout.map((l: { name: string }) => l.name)).toContain('enc.sig.w');
+    // The default fit (the suite's model) leaves the experimental signature term off.
+    const full = JSON.parse(readFileSync(model, 'utf8'));
+    expect(full.config.signatureWeight).toBe(0);
+    expect(full.layout.map((l: { name: string }) => l.name)).not.toContain('enc.sig.w');
   }, 300_000);
 
   it('forecast --json scores the model, the twin and every baseline at the three horizons', async () => {

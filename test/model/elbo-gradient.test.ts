@@ -48,12 +48,12 @@ function check(extra: Partial<typeof TINY>, groups: number[]): { worst: number; 
 }
 
 describe('ELBO gradient', () => {
-  it('matches central finite differences for every parameter, with match pairing and labeling', () => {
-    const { worst, names } = check({}, [0, 0, 1]);
+  it('matches central finite differences for every parameter, with match pairing, labeling and the take signature', () => {
+    const { worst, names } = check({ signatureWeight: 3 }, [0, 0, 1]);
     expect(worst).toBeLessThan(1e-5);
     // Every parameter group receives gradient (none is cut off from the loss).
     for (const n of ['enc.gru.wx', 'enc.gru.uh', 'enc.static.wa', 'enc.static.wLv', 'enc.dynamic.wb', 'enc.dynamic.bMu', 'prior.A', 'prior.c', 'prior.lv',
-      'dec.msg.wa', 'dec.msg.wb', 'dec.msg.wz', 'dec.gate.w', 'dec.up.w1x', 'dec.up.w1m', 'dec.up.node', 'dec.up.w2', 'noise.recon', 'noise.rollout'])
+      'dec.msg.wa', 'dec.msg.wb', 'dec.msg.wz', 'dec.gate.w', 'dec.up.w1x', 'dec.up.w1m', 'dec.up.node', 'dec.up.w2', 'noise.recon', 'noise.rollout', 'enc.sig.w', 'enc.sig.b'])
       expect(names).toContain(n);
   });
 
@@ -73,13 +73,42 @@ describe('ELBO gradient', () => {
     expect(resolveModelConfig({ ...TINY, beta: 0.4 }).staticBeta).toBe(0.4);
     expect(resolveModelConfig({ ...TINY, beta: 0.4, staticBeta: 0.1 }).staticBeta).toBe(0.1);
     expect(() => resolveModelConfig({ ...TINY, staticBeta: -1 })).toThrow(/staticBeta/);
-    const c = resolveModelConfig({ ...TINY, beta: 0.7, staticBeta: 0.2 });
+    const c = resolveModelConfig({ ...TINY, beta: 0.7, staticBeta: 0.2, signatureWeight: 3 });
     const model = createModel(c, identityStats(c.nodes), { seed: 3, precision: 64 });
     const batch = randomBatch(c, 3, model.store.valueView(), 5, [0, 0, 1]);
     const r = elboForward(model, createWorkspace(model, 3), batch, new Pcg32(9, 2));
     expect(r.klStatic).toBeGreaterThan(0);
     // The loss as the objective's definition writes it (elbo.ts), term by term.
-    expect(r.total).toBeCloseTo(r.recon + c.rolloutWeight * r.rollout + 0.2 * r.klStatic + 0.7 * r.klDynamic + c.labelWeight * r.label, 10);
+    expect(r.total).toBeCloseTo(r.recon + c.rolloutWeight * r.rollout + 0.2 * r.klStatic + 0.7 * r.klDynamic + c.labelWeight * r.label + c.signatureWeight * r.signature, 10);
+    expect(r.signature).toBeGreaterThan(0);
+  });
+
+  it('matches finite differences with the signature term at another weight and labeling off; no signatures, no term', () => {
+    const { worst, names } = check({ signatureWeight: 5, restrictedLabeling: false }, [0, 0, 1]);
+    expect(worst).toBeLessThan(1e-5);
+    for (const n of ['enc.sig.w', 'enc.sig.b', 'enc.static.wMu', 'enc.static.wLv']) expect(names).toContain(n);
+    const c = resolveModelConfig({ ...TINY, signatureWeight: 5 });
+    const model = createModel(c, identityStats(c.nodes), { seed: 3, precision: 64 });
+    const batch = randomBatch(c, 3, model.store.valueView(), 5, [0, 0, 1]);
+    expect(elboForward(model, createWorkspace(model, 3), { ...batch, signature: undefined }, new Pcg32(9, 2)).signature).toBe(0);
+    // Switched off, the model has no signature weights at all (so older model files keep their layout).
+    const plain = createModel({ ...c, signatureWeight: 0 }, identityStats(c.nodes), { seed: 3 });
+    expect(plain.params.sigW).toBeNull();
+    expect(plain.store.params.some((p) => p.name.startsWith('enc.sig'))).toBe(false);
+  });
+
+  it('computes the signature term by hand on one pair (2 nodes, 1 static dimension)', () => {
+    // Hand-computed: with posterior means m, log-variances −∞ (tiny) and no sampling, s = m; the read is
+    // s·w + b per feature; the term is Σ_features (s·w + b − y)² / P per window, P = 2 ordered pairs.
+    const c = resolveModelConfig({ ...TINY, nodes: 2, staticDims: 1, signatureWeight: 1, restrictedLabeling: false });
+    const model = createModel(c, identityStats(2), { seed: 4, precision: 64 });
+    const batch = randomBatch(c, 1, model.store.valueView(), 6, [0]);
+    const ws = createWorkspace(model, 1);
+    const r = elboForward(model, ws, batch, new Pcg32(1, 1), false);
+    const w = model.params.sigW!.value, b = model.params.sigB!.value, y = batch.signature!;
+    let want = 0;
+    for (let k = 0; k < 2; k++) for (let g = 0; g < 4; g++) want += (ws.muSg[k]! * w[g]! + b[g]! - y[k * 4 + g]!) ** 2 / 2;
+    expect(r.signature).toBeCloseTo(want, 12);
   });
 
   it('matches finite differences without match pairing and labeling', () => {

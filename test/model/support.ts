@@ -3,6 +3,7 @@ import type { MotionStats } from '../../src/motion/normalise.js';
 import type { ModelConfig } from '../../src/model/config.js';
 import { observedPoints } from '../../src/model/config.js';
 import type { Batch } from '../../src/model/encoder.js';
+import { SIGNATURE_FEATURES } from '../../src/model/signature.js';
 import { Pcg32 } from '../../src/nn/prng.js';
 import type { Buf } from '../../src/nn/types.js';
 
@@ -39,6 +40,12 @@ export function randomBatch(c: ModelConfig, size: number, like: Buf, seed: numbe
     const recon = like instanceof Float64Array ? new Float64Array(c.reconSteps * size * W) : new Float32Array(c.reconSteps * size * W);
     for (let i = 0; i < recon.length; i++) recon[i] = 0.2 * rng.gauss();
     batch.priorRecon = recon;
+  }
+  if (c.signatureWeight > 0 && !c.noCoupling) {
+    // Standardised take signatures; the last of three or more windows has none (its term is skipped).
+    const per = c.nodes * (c.nodes - 1) * SIGNATURE_FEATURES;
+    batch.signature = new Float64Array(size * per);
+    for (let i = 0; i < batch.signature.length; i++) batch.signature[i] = size > 2 && i >= (size - 1) * per ? NaN : rng.gauss();
   }
   return batch;
 }
