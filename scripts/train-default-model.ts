@@ -11,6 +11,7 @@ import { statSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { parseArgs } from 'node:util';
+import { Worker } from 'node:worker_threads';
 import { progressBar } from '../src/cli/progress.js';
 import type { TrainingTake } from '../src/model/batch.js';
 import { loadModel, modelToJson, saveModel } from '../src/model/modelfile.js';
@@ -22,7 +23,8 @@ import { calibrationCohort, normativeCohort, trainingCohort } from '../src/synth
 import { COUPLING_NORMS_KEY, couplingNorms, type CouplingNorms } from '../src/analysis/coupling-asymmetry.js';
 import { JOINT_PROFILES_KEY } from '../src/analysis/joint-profiles.js';
 import type { CouplingModel } from '../src/model/model.js';
-import { takeFactors } from '../src/analysis/factors.js';
+import { takeFactors, type TakeFactors } from '../src/analysis/factors.js';
+import type { NormsWorkerData } from './norms-worker.js';
 import { cohortTrack } from './model-cohort.js';
 
 /** The recipe of the shipped model: every figure here is stored in the model file's summary too. */
@@ -50,14 +52,32 @@ const takes: TrainingTake[] = cohort.map((s) => { const c = cohortTrack(s); retu
 // is calibrated on every group of the training mix (the held-out training subjects hold no variable walker).
 const calibrationTakes = (): TrainingTake[] => calibrationCohort(recipe.subjects, recipe.calibrationSubjects, recipe.seconds)
   .map((s) => ({ track: cohortTrack(s, { phase: false }).track, subject: s.id, phase: null }));
-/** Returns the normative coupling figures under a model: the normative cohort's walkers, never trained on. */
-function cohortNorms(model: CouplingModel): CouplingNorms {
-  return couplingNorms(normativeCohort().map((s) => takeFactors(model, cohortTrack(s, { phase: false }).track)));
+/**
+ * Returns the normative coupling figures under a model: the normative cohort's walkers, never trained on;
+ * with two threads the second half of the walkers on a worker thread (norms-worker.ts; the same figures).
+ */
+async function cohortNorms(model: CouplingModel): Promise<CouplingNorms> {
+  const walkers = normativeCohort(), half = recipe.threads > 1 ? walkers.length >> 1 : walkers.length;
+  const data: NormsWorkerData = { config: model.config, stats: model.stats, weights: Float32Array.from(model.store.valueView()), from: half, to: walkers.length };
+  const worker = half < walkers.length ? new Worker(new URL('./norms-worker.ts', import.meta.url), { workerData: data, execArgv: ['--import', 'tsx'] }) : null;
+  const theirs = new Promise<TakeFactors[]>((resolve, reject) => {
+    if (!worker) return resolve([]);
+    worker.once('message', (m: { factors?: TakeFactors[]; error?: string }) => (m.error !== undefined ? reject(new Error(`norms worker failed: ${m.error}`)) : resolve(m.factors!)));
+    worker.once('error', reject);
+    worker.once('exit', (code) => reject(new Error(`norms worker stopped (exit code ${code}) before it answered`)));
+  });
+  theirs.catch(() => undefined); // seen below; not left unobserved when this thread's share fails first
+  try {
+    const mine = walkers.slice(0, half).map((s) => takeFactors(model, cohortTrack(s, { phase: false }).track));
+    return couplingNorms([...mine, ...(await theirs)]);
+  } finally {
+    await worker?.terminate();
+  }
 }
 if (v['norms-only']) {
   // Recompute only the normative coupling figures of an existing model file (weights untouched).
   const loaded = loadModel(output);
-  const n = cohortNorms(loaded.model);
+  const n = await cohortNorms(loaded.model);
   // The joint discriminant is fitted on differences scaled by the old figures: it is dropped (refit it).
   const { [JOINT_PROFILES_KEY]: stale, ...kept } = loaded.extras;
   saveModel(output, loaded.model, loaded.training, { ...kept, [COUPLING_NORMS_KEY]: n });
@@ -116,7 +136,7 @@ const pair = await fitPair(takes, {
 bar.stop();
 // Normative coupling figures from the normative cohort (48 walkers of their own seeds, never trained on).
 marks.push(['norms', performance.now()]);
-const norms = cohortNorms(pair.model);
+const norms = await cohortNorms(pair.model);
 savePair(output, pair, { [COUPLING_NORMS_KEY]: norms });
 const seconds = (performance.now() - t0) / 1000;
 const s = pair.summary;

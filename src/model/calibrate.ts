@@ -8,7 +8,7 @@ import { STATE_SIZE } from '../motion/reflect.js';
 import type { Window } from '../motion/window.js';
 import { Pcg32 } from '../nn/prng.js';
 import { createForecaster, decodePaths, positionsOf, toWorld, type ForecastOptions } from './forecast.js';
-import { bandStats } from './metrics.js';
+import { scaledBandStats } from './metrics.js';
 import type { CouplingModel } from './model.js';
 import { backcastError, backcastScratch, spreadFactor, SPREAD_EXPONENTS, type SpreadAdapt } from './spread.js';
 
@@ -24,19 +24,23 @@ export function calibrateSpread(model: CouplingModel, windows: readonly Window[]
   // The world frame is affine in the normalised state, so a sample's positions at noise scale g are
   // base + g · dir: base from the decoded path, dir from one unit of its noise. Both are made once per
   // window, and each scale tried costs a multiply-add and the band.
-  const P3 = F * N * 3, one = new Float64Array(F * W), noisy = new Float64Array(P3);
+  const P3 = F * N * 3, one = new Float64Array(F * W), clean = new Float64Array(P3), noisy = new Float64Array(P3);
   const cases = windows.filter((w) => w.futureSteps === F).map((win, i) => {
     const rng = new Pcg32((options.seed ?? 1) + i, 0x63616c);
     const paths = decodePaths(fc, win, rng);
     const eps = new Float64Array(paths.length);
     rng.fillGauss(eps);
+    // Coordinate-major ([P3 × samples]), as scaledBandStats reads them.
     const base = new Float64Array(Sm * P3), dir = new Float64Array(Sm * P3);
     for (let m = 0; m < Sm; m++) {
       const o = m * F * W;
-      positionsOf(toWorld(fc, win, paths.subarray(o, o + F * W)), base, m * P3);
+      positionsOf(toWorld(fc, win, paths.subarray(o, o + F * W)), clean, 0);
       for (let j = 0; j < F * W; j++) one[j] = paths[o + j]! + Math.exp(0.5 * lv[j]!) * eps[o + j]!;
       positionsOf(toWorld(fc, win, one), noisy, 0);
-      for (let j = 0; j < P3; j++) dir[m * P3 + j] = noisy[j]! - base[m * P3 + j]!;
+      for (let j = 0; j < P3; j++) {
+        base[j * Sm + m] = clean[j]!;
+        dir[j * Sm + m] = noisy[j]! - clean[j]!;
+      }
     }
     const truth = new Float64Array(P3);
     positionsOf(win.toWorld(Float64Array.from(win.future), new Float64Array(win.future.length)), truth, 0);
@@ -45,13 +49,11 @@ export function calibrateSpread(model: CouplingModel, windows: readonly Window[]
   if (cases.length === 0) return model.spreadScale;
   const known = cases.map((x) => x.backcast).filter(Number.isFinite).sort((a, b) => a - b);
   const reference = known.length ? known[known.length >> 1]! : NaN;
-  const pos = new Float64Array(Sm * P3), col = new Float64Array(Sm);
+  const col = new Float64Array(Sm);
   const evaluate = (k: number, adapt: SpreadAdapt | null) => {
     let coverage = 0, score = 0;
     for (const cs of cases) {
-      const g = k * spreadFactor(adapt, cs.backcast);
-      for (let j = 0; j < Sm * P3; j++) pos[j] = cs.base[j]! + g * cs.dir[j]!;
-      const b = bandStats(pos, Sm, cs.truth, level, col);
+      const b = scaledBandStats(cs.base, cs.dir, k * spreadFactor(adapt, cs.backcast), Sm, cs.truth, level, col);
       coverage += b.coverage;
       score += b.score;
     }

@@ -1,15 +1,17 @@
 // After training: the pair readout of the model and of its twin, then the spread calibration of each
 // (the readout changes the forecast the spread is calibrated on). The two models' work is independent,
 // so with two threads the twin's runs on a worker thread (post-fit-worker.ts) while the model's runs
-// here; the results are the same bits as one after the other.
+// here, the worker first making half of the model's readout training data (the model's part is the
+// longer); the results are the same bits as one after the other.
 import { Worker } from 'node:worker_threads';
 import { windowsOf, type Window } from '../motion/window.js';
 import type { TrainingTake } from './batch.js';
 import { calibrateSpread } from './calibrate.js';
 import { modelWindowOptions } from './config.js';
 import type { CouplingModel } from './model.js';
-import type { PostFitWorkerData } from './post-fit-worker.js';
-import { fitModelReadout, type ReadoutOutcome } from './readout-fit.js';
+import type { PostFitModelSpec, PostFitWorkerData, PostFitWorkerMessage } from './post-fit-worker.js';
+import type { ReadoutData } from './readout.js';
+import { fitModelReadout, mergeReadoutData, readoutTrainingData, type ReadoutOutcome } from './readout-fit.js';
 import { workerEntry } from './worker-entry.js';
 
 /** What postFitOne reads besides the model. */
@@ -43,53 +45,96 @@ export function fullHistoryWindows(takes: readonly TrainingTake[], model: Coupli
   return out;
 }
 
-/** Fits the model's readout (when asked and it has the stride prior) and calibrates its spread; the model is updated in place. */
-export function postFitOne(model: CouplingModel, input: PostFitInput): PostFitResult {
-  const readout = input.readout && model.config.stridePrior ? fitModelReadout(model, input.train, input.valid, input.stride, input.validStride) : null;
+/** Whether postFitOne fits the model's readout (asked, and the model has the stride prior whose forecast it reads). */
+export function fitsReadout(model: CouplingModel, input: PostFitInput): boolean {
+  return input.readout && model.config.stridePrior;
+}
+
+/**
+ * Fits the model's readout (when fitsReadout) and calibrates its spread; the model is updated in place.
+ * `trainingData`: the readout's training data, when already made (readoutTrainingData).
+ */
+export function postFitOne(model: CouplingModel, input: PostFitInput, trainingData?: ReadoutData): PostFitResult {
+  const readout = fitsReadout(model, input) ? fitModelReadout(model, input.train, input.valid, input.stride, input.validStride, trainingData) : null;
   const wins = fullHistoryWindows(input.calibration, model, input.validStride);
   if (wins.length) calibrateSpread(model, wins);
   return { readout, spreadScale: model.spreadScale, spreadAdapt: model.spreadAdapt, windows: wins.length };
 }
 
-/** Returns the model's and the twin's post-fit results, the twin's on a worker thread when `threads` > 1. */
+/**
+ * Returns the model's and the twin's post-fit results. With `threads` > 1 a worker thread first makes
+ * half of the model's readout training data (its costliest part: a decoded forecast per window) while
+ * this thread makes the other half, then runs the twin's post-fit while this thread fits and calibrates
+ * the model; the results are the same bits as on one thread.
+ */
 export async function postFit(model: CouplingModel, twin: CouplingModel | null, input: PostFitInput, threads: number): Promise<{ model: PostFitResult; twin: PostFitResult | null }> {
-  if (!twin) return { model: postFitOne(model, input), twin: null };
-  if (threads < 2) return { model: postFitOne(model, input), twin: postFitOne(twin, input) };
-  const worker = onWorker(twin, input);
-  // The worker's promise settles on an event, so the model's (synchronous) work here runs beside it.
+  const share = threads > 1 && fitsReadout(model, input);
+  if (threads < 2 || (!twin && !share)) return { model: postFitOne(model, input), twin: twin ? postFitOne(twin, input) : null };
+  const worker = onWorker(share ? model : null, twin, input);
+  // The worker's promises settle on events, so this thread's (synchronous) work runs beside it.
   let mine: PostFitResult;
   try {
-    mine = postFitOne(model, input);
+    let trainingData: ReadoutData | undefined;
+    if (share) {
+      const here = readoutTrainingData(model, input.train, input.stride, { index: 0, of: 2 });
+      trainingData = mergeReadoutData([here, await worker.share]);
+    }
+    mine = postFitOne(model, input, trainingData);
   } catch (e) {
     // Do not leave the worker running (or its failure unobserved) when this thread's part fails.
     await worker.stop();
     throw e;
   }
   const theirs = await worker.result;
-  if (theirs.readout) twin.readout = theirs.readout.dropped === null ? theirs.readout.fit!.readout : null;
-  twin.spreadScale = theirs.spreadScale;
-  twin.spreadAdapt = theirs.spreadAdapt;
+  if (twin && theirs) {
+    if (theirs.readout) twin.readout = theirs.readout.dropped === null ? theirs.readout.fit!.readout : null;
+    twin.spreadScale = theirs.spreadScale;
+    twin.spreadAdapt = theirs.spreadAdapt;
+  }
   return { model: mine, twin: theirs };
 }
 
-/** Starts postFitOne for `model` on a worker thread: its result (the model itself is not changed), and a way to stop it. */
-function onWorker(model: CouplingModel, input: PostFitInput): { result: Promise<PostFitResult>; stop: () => Promise<void> } {
+/** What the worker thread is sent of a model: enough to rebuild it bit for bit. */
+function modelSpec(model: CouplingModel): PostFitModelSpec {
+  return { config: model.config, stats: model.stats, weights: Float32Array.from(model.store.valueView()), current: model.readout };
+}
+
+/**
+ * Starts the worker thread: the share of `helped`'s readout training data (readoutData part 1 of 2; when
+ * given), then postFitOne for `twin` (when given; the twin itself is not changed). Returns both results and
+ * a way to stop it.
+ */
+function onWorker(helped: CouplingModel | null, twin: CouplingModel | null, input: PostFitInput): { share: Promise<ReadoutData>; result: Promise<PostFitResult | null>; stop: () => Promise<void> } {
   const entry = workerEntry('post-fit-worker');
   const data: PostFitWorkerData = {
-    config: model.config, stats: model.stats, weights: Float32Array.from(model.store.valueView()), current: model.readout,
+    helped: helped ? modelSpec(helped) : null, twin: twin ? modelSpec(twin) : null,
     train: [...input.train], valid: [...input.valid], calibration: [...input.calibration], stride: input.stride, validStride: input.validStride, readout: input.readout,
   };
   const worker = new Worker(entry.code, { workerData: data, eval: entry.eval });
-  const result = new Promise<PostFitResult>((resolve, reject) => {
-    worker.once('message', (m: { result?: PostFitResult; error?: string }) => {
-      void worker.terminate();
-      if (m.error !== undefined) reject(new Error(`post-fit worker failed: ${m.error}`));
-      else resolve(m.result!);
+  let settleShare: { resolve: (d: ReadoutData) => void; reject: (e: unknown) => void } | null = null;
+  const share = new Promise<ReadoutData>((resolve, reject) => { settleShare = { resolve, reject }; });
+  const result = new Promise<PostFitResult | null>((resolve, reject) => {
+    const fail = (e: unknown) => {
+      settleShare!.reject(e);
+      reject(e);
+    };
+    worker.on('message', (m: PostFitWorkerMessage) => {
+      if (m.error !== undefined) {
+        void worker.terminate();
+        fail(new Error(`post-fit worker failed: ${m.error}`));
+      } else if (m.share) settleShare!.resolve(m.share);
+      else {
+        void worker.terminate();
+        resolve(m.result ?? null);
+      }
     });
-    worker.once('error', reject);
-    worker.once('exit', (code) => reject(new Error(`post-fit worker stopped (exit code ${code}) before it answered`)));
+    worker.once('error', fail);
+    worker.once('exit', (code) => fail(new Error(`post-fit worker stopped (exit code ${code}) before it answered`)));
   });
+  // Either may go unawaited (no share asked, or this thread failed first): their rejections are seen by stop or result.
+  share.catch(() => undefined);
   return {
+    share,
     result,
     stop: async () => {
       result.catch(() => undefined);

@@ -45,6 +45,8 @@ export interface ReadoutDataOptions {
   mirror: boolean;
   /** One jittered copy per entry, its level drawn up to the entry times READOUT_JITTER (empty: none). */
   jitterScales: readonly number[];
+  /** Only the windows whose index is `index` modulo `of` (a thread's share; mergeReadoutData joins the shares). */
+  part?: { index: number; of: number };
 }
 
 /** Returns the readout fitting data of `model` (its readout ignored) over the windows of `takes` every `stride` steps. */
@@ -54,7 +56,8 @@ export function readoutData(model: CouplingModel, takes: readonly TrainingTake[]
   model.readout = null;
   try {
     const fc = createForecaster(model, FIT_SAMPLES), scratch = readoutScratch(c), mean = new Float64Array(F * W);
-    const out: ReadoutData = { features: [], targets: [], jitter: [], copy: [] };
+    const out: ReadoutData = { features: [], targets: [], jitter: [], copy: [], window: [] };
+    let i = 0;
     const push = (features: Float64Array, target: Float64Array, copy: number, mirror: Int32Array) => {
       // The mirror image has the same jitter (a reflection keeps every distance).
       const jitter = captureJitter(scratch.positions, readoutHistory(c), N);
@@ -62,18 +65,25 @@ export function readoutData(model: CouplingModel, takes: readonly TrainingTake[]
       out.targets.push(target);
       out.jitter!.push(jitter);
       out.copy!.push(copy);
+      out.window!.push(i);
       if (!options.mirror) return;
       out.features.push(mirrorNodeVectors(features, mirror, new Float64Array(features.length)));
       out.targets.push(mirrorNodeVectors(target, mirror, new Float64Array(N * K * 3)));
       out.jitter!.push(jitter);
       out.copy!.push(copy);
+      out.window!.push(i);
     };
-    let i = 0;
+    const part = options.part ?? { index: 0, of: 1 };
     for (const t of takes)
       for (const win of windowsOf(t.track, stride, modelWindowOptions(c))) {
         if (win.futureSteps !== F || win.historySteps !== readoutHistory(c)) continue;
         const f = readoutFeatures(c, win.history, win.historySteps, scratch);
         if (!f) continue;
+        // Another thread's window: counted (its draws are seeded by its index), not decoded here.
+        if (i % part.of !== part.index) {
+          i++;
+          continue;
+        }
         const paths = decodePaths(fc, win, new Pcg32(1 + i, 0x726f7574));
         mean.fill(0);
         for (let m = 0; m < FIT_SAMPLES; m++) for (let j = 0; j < F * W; j++) mean[j] = mean[j]! + paths[m * F * W + j]! / FIT_SAMPLES;
@@ -95,11 +105,30 @@ export function readoutData(model: CouplingModel, takes: readonly TrainingTake[]
   }
 }
 
+/**
+ * Returns the threads' shares of one readoutData call (options.part 0 … of − 1) joined in window order:
+ * the very data one thread would have made (each window's draws are seeded by its index).
+ */
+export function mergeReadoutData(parts: readonly ReadoutData[]): ReadoutData {
+  const entries = parts.flatMap((d) => d.features.map((_, e) => ({ d, e, w: d.window![e]! })));
+  // A stable sort: a window's entries keep their order (clean, mirror, copies).
+  entries.sort((x, y) => x.w - y.w);
+  return {
+    features: entries.map((x) => x.d.features[x.e]!), targets: entries.map((x) => x.d.targets[x.e]!),
+    jitter: entries.map((x) => x.d.jitter![x.e]!), copy: entries.map((x) => x.d.copy![x.e]!), window: entries.map((x) => x.w),
+  };
+}
+
+/** Returns the training data of fitModelReadout (every `stride` steps, mirrored, with both jittered copies), or one thread's share of it. */
+export function readoutTrainingData(model: CouplingModel, train: readonly TrainingTake[], stride: number, part?: { index: number; of: number }): ReadoutData {
+  return readoutData(model, train, stride, { mirror: true, jitterScales: READOUT_JITTER_SCALES, ...(part ? { part } : {}) });
+}
+
 /** Returns the windows of `data` whose copy index (−1: the clean window, k: its k-th jittered copy) is one of `copies`. */
 function subset(data: ReadoutData, copies: readonly number[]): ReadoutData {
   const keep = data.features.map((_, i) => copies.includes(data.copy?.[i] ?? -1));
   const pick = <T>(xs: T[] | undefined) => xs?.filter((_, i) => keep[i]);
-  return { features: pick(data.features)!, targets: pick(data.targets)!, jitter: pick(data.jitter), copy: pick(data.copy) };
+  return { features: pick(data.features)!, targets: pick(data.targets)!, jitter: pick(data.jitter), copy: pick(data.copy), window: pick(data.window) };
 }
 
 /** Returns the recorded future minus the decoded mean (window frame, leg lengths) at the knots, nodes × knots × 3. */
@@ -167,14 +196,15 @@ export function jitterThreshold(cleanJitter: readonly number[]): number {
  * switch's threshold comes from the clean training windows' jitter (jitterThreshold). The readout is
  * kept only where the held-out windows show that it lowers the error at the knots, on the clean windows
  * and on both kinds of jittered copy; otherwise (or with too few windows of full history to fit or judge
- * it) `model.readout` is null and the outcome says why.
+ * it) `model.readout` is null and the outcome says why. `trainingData`: readoutTrainingData's of the
+ * training takes, when already made (post-fit.ts makes it in shares on two threads).
  */
-export function fitModelReadout(model: CouplingModel, train: readonly TrainingTake[], valid: readonly TrainingTake[], stride: number, validStride: number): ReadoutOutcome {
+export function fitModelReadout(model: CouplingModel, train: readonly TrainingTake[], valid: readonly TrainingTake[], stride: number, validStride: number, trainingData?: ReadoutData): ReadoutOutcome {
   const senders: ReadoutSenders = model.config.noCoupling ? 'self' : 'all';
   model.readout = null;
   const history = `${(readoutHistory(model.config) / model.config.rate).toFixed(1)} s of history and 1 s of future`;
   const none = (dropped: string): ReadoutOutcome => ({ fit: null, robust: null, dropped, clean: null, mild: null, jittered: null, jitteredCleanOnly: null });
-  const trainData = readoutData(model, train, stride, { mirror: true, jitterScales: READOUT_JITTER_SCALES });
+  const trainData = trainingData ?? readoutTrainingData(model, train, stride);
   const trainClean = subset(trainData, [-1]);
   if (trainClean.features.length < 2) return none(`no training window has ${history}`);
   const validData = readoutData(model, valid, validStride, { mirror: false, jitterScales: READOUT_JITTER_SCALES });

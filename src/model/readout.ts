@@ -223,9 +223,10 @@ export function mirrorNodeVectors(values: Float64Array, nodeMirror: Int32Array, 
 /**
  * Fitting data: features (nodes × perNode) and targets (nodes × knots × 3) per window; `copy` says which
  * window is an augmented copy (−1: the clean window, k ≥ 0: its k-th jittered copy; absent: all clean),
- * `jitter` holds each window's captureJitter (absent: 0).
+ * `jitter` holds each window's captureJitter (absent: 0), `window` the index of the window an entry
+ * came from (its mirror image and jittered copies share it).
  */
-export interface ReadoutData { features: Float64Array[]; targets: Float64Array[]; jitter?: number[]; copy?: number[] }
+export interface ReadoutData { features: Float64Array[]; targets: Float64Array[]; jitter?: number[]; copy?: number[]; window?: number[] }
 
 /** Result of fitReadout: the readout and the held-out error of every ridge weight tried. */
 export interface ReadoutFit {

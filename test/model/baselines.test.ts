@@ -2,7 +2,7 @@
 import { describe, expect, it } from 'vitest';
 import { baselineForecast, constantVelocity, registeredStrideForecast, strideForecast, zeroMotion } from '../../src/model/baselines.js';
 import { Pcg32 } from '../../src/nn/prng.js';
-import { bandCoverage, bandStats, horizonStep, meanJointError } from '../../src/model/metrics.js';
+import { bandCoverage, bandStats, horizonStep, meanJointError, scaledBandStats } from '../../src/model/metrics.js';
 import { stridePeriodAt } from '../../src/model/period.js';
 
 /** Returns steps × nodes × 3 positions: the pelvis (node 0) advancing along x at `v` m/s, every node
@@ -96,6 +96,10 @@ describe('forecast baselines', () => {
         const got = bandStats(base.map((b, i) => b + g * dir[i]!), n, truth, level, new Float64Array(n));
         expect(got.coverage, `n ${n} level ${level} g ${g}`).toBe(inside / L);
         expect(got.score).toBeCloseTo(score / L, 10);
+        // The scaled form on coordinate-major base and direction gives the very same figures.
+        const baseT = new Float64Array(n * L), dirT = new Float64Array(n * L);
+        for (let s = 0; s < n; s++) for (let c = 0; c < L; c++) { baseT[c * n + s] = base[s * L + c]!; dirT[c * n + s] = dir[s * L + c]!; }
+        expect(scaledBandStats(baseT, dirT, g, n, truth, level)).toEqual(got);
       }
     }
   });

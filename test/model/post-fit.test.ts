@@ -1,5 +1,5 @@
 // The post-fit phase (src/model/post-fit.ts): the twin's readout and spread calibration on a worker
-// thread give the same bits as on the calling thread, also when only the spread is recalibrated (the
+// thread, and half of the model's readout training data made there, give the same bits as on the calling thread, also when only the spread is recalibrated (the
 // readouts kept), and the model's own are not changed by where the twin's ran.
 import { describe, expect, it } from 'vitest';
 import { resolveModelConfig } from '../../src/model/config.js';
@@ -28,6 +28,9 @@ describe('post-fit phase', () => {
       if (a.readout?.jitter) expect(Array.from(b.readout!.jitter!.robust.weights)).toEqual(Array.from(a.readout.jitter.robust.weights));
     }
     expect(two.twin!.readout!.fit!.validError).toEqual(one.twin!.readout!.fit!.validError);
+    // The model's readout training data were made half on the worker: the same fit.
+    expect(two.model.readout!.fit!.validError).toEqual(one.model.readout!.fit!.validError);
+    expect(two.model.readout!.fit!.trainWindows).toBe(one.model.readout!.fit!.trainWindows);
     expect(two.twin!.readout!.jittered).toEqual(one.twin!.readout!.jittered);
     // Spread only (the readouts kept): the worker calibrates the twin with its readout, as one thread does.
     // The twin gets its fitted readout whether or not the keep test took it, so that one is there to calibrate with.

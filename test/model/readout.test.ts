@@ -15,7 +15,7 @@ import {
   captureJitter, fitReadout, JITTER_STEPS, mirrorNodeVectors, readoutCorrection, readoutFeatures, readoutFeaturesPerNode, readoutFor, readoutKnots, readoutScratch,
   spreadKnots, type ReadoutData,
 } from '../../src/model/readout.js';
-import { JITTER_THRESHOLD_FACTOR, jitterThreshold, readoutData } from '../../src/model/readout-fit.js';
+import { JITTER_THRESHOLD_FACTOR, jitterThreshold, mergeReadoutData, readoutData, readoutTrainingData } from '../../src/model/readout-fit.js';
 import { statsOfTakes } from '../../src/model/train.js';
 import { Pcg32 } from '../../src/nn/prng.js';
 import { identityStats, TINY } from './support.js';
@@ -114,6 +114,22 @@ describe('pair readout', () => {
 });
 
 describe('pair readout fitting data', () => {
+  it('made in two shares (one per thread) and merged, is the data of one pass, entry for entry', () => {
+    const takes = [synthTrainingTake(3, 9), synthTrainingTake(4, 9)];
+    const sc = resolveModelConfig(SMALL), model = createModel(sc, statsOfTakes(takes, sc), { seed: 2 });
+    const whole = readoutTrainingData(model, takes, 20);
+    const shares = [0, 1].map((index) => readoutTrainingData(model, takes, 20, { index, of: 2 }));
+    expect(new Set(whole.window).size).toBeGreaterThan(3);
+    // Each share holds every other window; merged, the shares are the whole, in order.
+    for (const [k, d] of shares.entries()) expect(d.window!.every((w) => w % 2 === k)).toBe(true);
+    const merged = mergeReadoutData([shares[1]!, shares[0]!]);
+    expect(merged.window).toEqual(whole.window);
+    expect(merged.copy).toEqual(whole.copy);
+    expect(merged.jitter).toEqual(whole.jitter);
+    merged.features.forEach((f, e) => expect(Array.from(f)).toEqual(Array.from(whole.features[e]!)));
+    merged.targets.forEach((t, e) => expect(Array.from(t)).toEqual(Array.from(whole.targets[e]!)));
+  });
+
   it('adds jittered copies of each window with the clean target, mirrored like the clean ones', () => {
     const take = synthTrainingTake(3, 9);
     const sc = resolveModelConfig(SMALL), model = createModel(sc, statsOfTakes([take], sc), { seed: 2 });
