@@ -47,7 +47,7 @@ export function register(program: Command): void {
     .requiredOption('-o, --output <file>', 'model file to write')
     .option('--epochs <n>', 'most epochs', numberOption(1, 10_000, true), 20)
     .option('--seed <n>', 'seed: same seed, same machine, same weights', numberOption(0, 2 ** 31 - 1, true), 1)
-    .option('--threads <n>', "threads for the training steps and, after them, the twin's readout and spread calibration (1 or 2; the results do not depend on it)", numberOption(1, 2, true), 2)
+    .option('--threads <n>', "threads for the training steps and, after them, the pair readouts and spread calibrations of the model and its twin (1 or 2; the results do not depend on it)", numberOption(1, 2, true), 2)
     .option('--no-twin', 'skip the no-coupling twin (forecast then reports no no_coupling figures)')
     .option('--no-match-pairing', 'ablation: windows drawn in pairs from one take no longer share their static factors')
     .option('--no-restricted-labeling', 'ablation: no dynamic dimensions tied to the gait phase')

@@ -68,7 +68,6 @@ export function windowSignature(observed: Float64Array, steps: number, nodes: nu
 /** Returns the raw (unstandardised) signature of a take: the mean of its windows' signatures; null when it has no window. */
 export function takeSignature(track: Track, config: ModelConfig, pairs: PairList): Float64Array | null {
   const G = SIGNATURE_FEATURES, acc = new Float64Array(pairs.count * G), one = new Float64Array(pairs.count * G);
-  if (track.steps <= config.observe + config.forecast) return null;
   let n = 0;
   for (const w of windowsOf(track, SIGNATURE_STRIDE, modelWindowOptions(config))) {
     windowSignature(w.observed, w.observe, config.nodes, pairs, one);

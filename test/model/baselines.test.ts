@@ -77,6 +77,9 @@ describe('forecast baselines', () => {
     // Reference: the sample quantile of Hyndman and Fan (1996), type 7 (linear between order statistics at
     // p·(n − 1); common practice, the default of R and NumPy), on each coordinate's samples sorted by Array.sort.
     const type7 = (xs: number[], p: number) => { const v = [...xs].sort((a, b) => a - b), x = p * (v.length - 1), i = Math.floor(x); return i + 1 < v.length ? v[i]! + (x - i) * (v[i + 1]! - v[i]!) : v[i]!; };
+    // The same quantile written as the implementation weighs the two order statistics, so the figures
+    // must agree to the bit with a full sort (the implementation keeps only the order statistics it reads).
+    const type7w = (xs: number[], p: number) => { const v = [...xs].sort((a, b) => a - b), x = p * (v.length - 1), i = Math.floor(x), w = x - i; return i + 1 < v.length ? v[i]! * (1 - w) + v[i + 1]! * w : v[i]!; };
     const rng = new Pcg32(21, 4);
     for (const [n, level] of [[20, 0.9], [20, 0.5], [7, 0.9], [101, 0.9], [3, 0.9], [2, 0.9], [1, 0.9], [40, 0.98]] as const) {
       const L = 37, base = new Float64Array(n * L), dir = new Float64Array(n * L), truth = new Float64Array(L);
@@ -85,17 +88,20 @@ describe('forecast baselines', () => {
       for (let s = 0; s < n; s++) base[s * L] = Math.round(base[s * L]!);
       for (let c = 0; c < L; c++) truth[c] = 1.5 * rng.gauss();
       for (const g of [0, 0.7]) {
-        let inside = 0, score = 0;
+        let inside = 0, score = 0, exact = 0;
         const a = 1 - level;
         for (let c = 0; c < L; c++) {
           const xs = Array.from({ length: n }, (_, s) => base[s * L + c]! + g * dir[s * L + c]!);
           const l = type7(xs, a / 2), u = type7(xs, 1 - a / 2), v = truth[c]!;
           if (v >= l && v <= u) inside++;
           score += u - l + (v < l ? (2 / a) * (l - v) : 0) + (v > u ? (2 / a) * (v - u) : 0);
+          const lw = type7w(xs, a / 2), uw = type7w(xs, 1 - a / 2);
+          exact += uw - lw + (v < lw ? (2 / a) * (lw - v) : 0) + (v > uw ? (2 / a) * (v - uw) : 0);
         }
         const got = bandStats(base.map((b, i) => b + g * dir[i]!), n, truth, level, new Float64Array(n));
         expect(got.coverage, `n ${n} level ${level} g ${g}`).toBe(inside / L);
         expect(got.score).toBeCloseTo(score / L, 10);
+        expect(got.score).toBe(exact / L);
         // The scaled form on coordinate-major base and direction gives the very same figures.
         const baseT = new Float64Array(n * L), dirT = new Float64Array(n * L);
         for (let s = 0; s < n; s++) for (let c = 0; c < L; c++) { baseT[c * n + s] = base[s * L + c]!; dirT[c * n + s] = dir[s * L + c]!; }
