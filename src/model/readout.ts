@@ -22,7 +22,7 @@
 // the clean training windows (readout-fit.ts jitterThreshold) is corrected by that one instead. The choice
 // reads every node's jitter, also in the twin's readout: it carries the capture's quality, not its motion.
 import { STATE_SIZE } from '../motion/reflect.js';
-import { choleskyFactor, choleskySolveFactored } from '../nn/cholesky.js';
+import { choleskyFactor, choleskySolveMany } from '../nn/cholesky.js';
 import { registeredStrideForecast, strideForecast } from './baselines.js';
 import type { ModelConfig } from './config.js';
 
@@ -259,6 +259,58 @@ export function knotErrors(r: PairReadout | null, data: ReadoutData, nodes: numb
   return out;
 }
 
+/** One block of the ridge system: its feature columns and output columns. */
+interface GramBlock { cols: number; dim: number; outs: number; out: number }
+
+/**
+ * Adds every window's standardised features z and centred targets y to each block's lower-triangle
+ * Gram matrix A (Σ z zᵀ) and cross-product B (Σ z yᵀ). Windows go four at a time, each entry taking
+ * their four products in one expression evaluated left to right, ((A + p0) + p1) + p2) + p3: the same
+ * sums, rounding for rounding, as one window after another, with a quarter of the passes over A (a few
+ * MB: the pass, not the arithmetic, is the cost).
+ */
+function accumulateGrams(train: ReadoutData, blocks: readonly GramBlock[], grams: readonly { A: Float64Array; B: Float64Array }[], mean: Float64Array, sd: Float64Array, ym: Float64Array): void {
+  const n = train.features.length, d = mean.length, m = ym.length;
+  const z = [0, 1, 2, 3].map(() => new Float64Array(d)), y = [0, 1, 2, 3].map(() => new Float64Array(m));
+  const load = (i: number, q: number) => {
+    const f = train.features[i]!, t = train.targets[i]!, zq = z[q]!, yq = y[q]!;
+    for (let j = 0; j < d; j++) zq[j] = (f[j]! - mean[j]!) / sd[j]!;
+    for (let o = 0; o < m; o++) yq[o] = t[o]! - ym[o]!;
+  };
+  const [z0, z1, z2, z3] = z as [Float64Array, Float64Array, Float64Array, Float64Array];
+  const [y0, y1, y2, y3] = y as [Float64Array, Float64Array, Float64Array, Float64Array];
+  let i = 0;
+  for (; i + 3 < n; i += 4) {
+    for (let q = 0; q < 4; q++) load(i + q, q);
+    blocks.forEach((bl, bi) => {
+      const { A, B } = grams[bi]!, D = bl.dim, M = bl.out, c = bl.cols, u = bl.outs;
+      for (let a = 0; a < D; a++) {
+        const a0 = z0[c + a]!, a1 = z1[c + a]!, a2 = z2[c + a]!, a3 = z3[c + a]!;
+        // Adding a zero product leaves a sum's bits as they are (it starts at +0), so a row of zeros is skipped.
+        if (a0 === 0 && a1 === 0 && a2 === 0 && a3 === 0) continue;
+        const ra = a * D;
+        for (let b2 = 0; b2 <= a; b2++) A[ra + b2] = A[ra + b2]! + a0 * z0[c + b2]! + a1 * z1[c + b2]! + a2 * z2[c + b2]! + a3 * z3[c + b2]!;
+        const rb = a * M;
+        for (let o = 0; o < M; o++) B[rb + o] = B[rb + o]! + a0 * y0[u + o]! + a1 * y1[u + o]! + a2 * y2[u + o]! + a3 * y3[u + o]!;
+      }
+    });
+  }
+  for (; i < n; i++) {
+    load(i, 0);
+    blocks.forEach((bl, bi) => {
+      const { A, B } = grams[bi]!, D = bl.dim, M = bl.out, c = bl.cols, u = bl.outs;
+      for (let a = 0; a < D; a++) {
+        const a0 = z0[c + a]!;
+        if (a0 === 0) continue;
+        const ra = a * D;
+        for (let b2 = 0; b2 <= a; b2++) A[ra + b2] = A[ra + b2]! + a0 * z0[c + b2]!;
+        const rb = a * M;
+        for (let o = 0; o < M; o++) B[rb + o] = B[rb + o]! + a0 * y0[u + o]!;
+      }
+    });
+  }
+}
+
 /**
  * Returns the readout fitted on `train` by ridge regression on standardised features, the weight chosen
  * from `lambdas` by the held-out error on `valid` (READOUT_DEFAULT_LAMBDA when `valid` is empty).
@@ -276,23 +328,7 @@ export function fitReadout(c: ModelConfig, senders: ReadoutSenders, train: Reado
   // Blocks: one over every feature ('all') or one per node over its own features ('self').
   const blocks = senders === 'all' ? [{ cols: 0, dim: d, outs: 0, out: m }] : Array.from({ length: N }, (_, b) => ({ cols: b * per, dim: per, outs: b * K3, out: K3 }));
   const grams = blocks.map((bl) => ({ A: new Float64Array(bl.dim * bl.dim), B: new Float64Array(bl.dim * bl.out) }));
-  const z = new Float64Array(d), y = new Float64Array(m);
-  for (let i = 0; i < n; i++) {
-    const f = train.features[i]!, t = train.targets[i]!;
-    for (let j = 0; j < d; j++) z[j] = (f[j]! - mean[j]!) / sd[j]!;
-    for (let o = 0; o < m; o++) y[o] = t[o]! - ym[o]!;
-    blocks.forEach((bl, bi) => {
-      const { A, B } = grams[bi]!, D = bl.dim, M = bl.out;
-      for (let a = 0; a < D; a++) {
-        const za = z[bl.cols + a]!;
-        if (za === 0) continue;
-        const ra = a * D;
-        for (let b2 = 0; b2 <= a; b2++) A[ra + b2] = A[ra + b2]! + za * z[bl.cols + b2]!;
-        const rb = a * M;
-        for (let o = 0; o < M; o++) B[rb + o] = B[rb + o]! + za * y[bl.outs + o]!;
-      }
-    });
-  }
+  accumulateGrams(train, blocks, grams, mean, sd, ym);
   const solve = (lambda: number): PairReadout => {
     const weights = new Float64Array(senders === 'all' ? d * m : N * per * K3);
     blocks.forEach((bl, bi) => {
@@ -301,13 +337,9 @@ export function fitReadout(c: ModelConfig, senders: ReadoutSenders, train: Reado
       for (let a = 0; a < D; a++) for (let b2 = 0; b2 <= a; b2++) { S[a * D + b2] = A[a * D + b2]!; S[b2 * D + a] = A[a * D + b2]!; }
       for (let a = 0; a < D; a++) S[a * D + a] = S[a * D + a]! + lambda * n;
       const L = choleskyFactor(S, D, 'the pair readout');
-      const rhs = new Float64Array(D);
-      for (let o = 0; o < M; o++) {
-        for (let a = 0; a < D; a++) rhs[a] = B[a * M + o]!;
-        const w = choleskySolveFactored(L, D, rhs);
-        // 'all': row = feature, column = output; 'self': node blocks of perNode × K3.
-        for (let a = 0; a < D; a++) weights[senders === 'all' ? a * m + o : (bl.cols + a) * K3 + o] = w[a]!;
-      }
+      const w = choleskySolveMany(L, D, B, M);
+      // 'all': row = feature, column = output; 'self': node blocks of perNode × K3.
+      for (let a = 0; a < D; a++) for (let o = 0; o < M; o++) weights[senders === 'all' ? a * m + o : (bl.cols + a) * K3 + o] = w[a * M + o]!;
     });
     return { senders, lambda, knots, priorSteps: readoutPriorSteps(c), featureMean: mean, featureSd: sd, targetMean: ym, weights };
   };
