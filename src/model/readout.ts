@@ -265,7 +265,7 @@ interface GramBlock { cols: number; dim: number; outs: number; out: number }
 /**
  * Adds every window's standardised features z and centred targets y to each block's lower-triangle
  * Gram matrix A (Σ z zᵀ) and cross-product B (Σ z yᵀ). Windows go four at a time, each entry taking
- * their four products in one expression evaluated left to right, ((A + p0) + p1) + p2) + p3: the same
+ * their four products in one expression evaluated left to right, (((A + p0) + p1) + p2) + p3: the same
  * sums, rounding for rounding, as one window after another, with a quarter of the passes over A (a few
  * MB: the pass, not the arithmetic, is the cost).
  */
