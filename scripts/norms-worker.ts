@@ -1,22 +1,19 @@
 // Worker thread of scripts/train-default-model.ts: the factor summaries of a share of the normative
-// cohort (src/synth/cohort.ts) under a model rebuilt from its configuration, statistics and weights (the
-// same bits as the main thread's), while the main thread does the other share.
+// cohort (src/synth/cohort.ts) under a model rebuilt from its spec (src/model/model-spec.ts: the same
+// bits as the main thread's), while the main thread does the other share.
 import { parentPort, workerData } from 'node:worker_threads';
 import { takeFactors, type TakeFactors } from '../src/analysis/factors.js';
-import type { ModelConfig } from '../src/model/config.js';
-import { createModel } from '../src/model/model.js';
-import type { MotionStats } from '../src/motion/normalise.js';
+import { modelFromSpec, type ModelSpec } from '../src/model/model-spec.js';
 import { normativeCohort } from '../src/synth/cohort.js';
 import { cohortTrack } from './model-cohort.js';
 
 /** What the main thread sends: the model and the cohort indices [from, to) of this share. */
-export interface NormsWorkerData { config: ModelConfig; stats: MotionStats; weights: Float32Array; from: number; to: number }
+export interface NormsWorkerData { model: ModelSpec; from: number; to: number }
 
 if (parentPort) {
   const d = workerData as NormsWorkerData;
   try {
-    const model = createModel(d.config, d.stats, { seed: 1 });
-    model.store.valueView().set(d.weights);
+    const model = modelFromSpec(d.model);
     const factors: TakeFactors[] = normativeCohort().slice(d.from, d.to).map((s) => takeFactors(model, cohortTrack(s, { phase: false }).track));
     parentPort.postMessage({ factors });
   } catch (e) {

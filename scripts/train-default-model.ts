@@ -26,6 +26,7 @@ import type { CouplingModel } from '../src/model/model.js';
 import { takeFactors, type TakeFactors } from '../src/analysis/factors.js';
 import type { NormsWorkerData } from './norms-worker.js';
 import { tsWorkerEntry } from '../src/model/worker-entry.js';
+import { modelSpec } from '../src/model/model-spec.js';
 import { cohortTrack } from './model-cohort.js';
 
 /** The recipe of the shipped model: every figure here is stored in the model file's summary too. */
@@ -59,8 +60,8 @@ const calibrationTakes = (): TrainingTake[] => calibrationCohort(recipe.subjects
  */
 async function cohortNorms(model: CouplingModel): Promise<CouplingNorms> {
   const walkers = normativeCohort(), half = recipe.threads > 1 ? walkers.length >> 1 : walkers.length;
-  const data: NormsWorkerData = { config: model.config, stats: model.stats, weights: Float32Array.from(model.store.valueView()), from: half, to: walkers.length };
-  const worker = half < walkers.length ? new Worker(tsWorkerEntry(fileURLToPath(new URL('./norms-worker.ts', import.meta.url))).code, { workerData: data, eval: true }) : null;
+  const data: NormsWorkerData | null = half < walkers.length ? { model: modelSpec(model), from: half, to: walkers.length } : null;
+  const worker = data ? new Worker(tsWorkerEntry(fileURLToPath(new URL('./norms-worker.ts', import.meta.url))).code, { workerData: data, eval: true }) : null;
   const theirs = new Promise<TakeFactors[]>((resolve, reject) => {
     if (!worker) return resolve([]);
     worker.once('message', (m: { factors?: TakeFactors[]; error?: string }) => (m.error !== undefined ? reject(new Error(`norms worker failed: ${m.error}`)) : resolve(m.factors!)));

@@ -9,7 +9,8 @@ import type { TrainingTake } from './batch.js';
 import { calibrateSpread } from './calibrate.js';
 import { modelWindowOptions } from './config.js';
 import type { CouplingModel } from './model.js';
-import type { PostFitModelSpec, PostFitWorkerData, PostFitWorkerMessage } from './post-fit-worker.js';
+import { modelSpec } from './model-spec.js';
+import type { PostFitWorkerData, PostFitWorkerMessage } from './post-fit-worker.js';
 import type { ReadoutData } from './readout.js';
 import { fitModelReadout, mergeReadoutData, readoutTrainingData, type ReadoutOutcome } from './readout-fit.js';
 import { workerEntry } from './worker-entry.js';
@@ -94,11 +95,6 @@ export async function postFit(model: CouplingModel, twin: CouplingModel | null, 
   return { model: mine, twin: theirs };
 }
 
-/** What the worker thread is sent of a model: enough to rebuild it bit for bit. */
-function modelSpec(model: CouplingModel): PostFitModelSpec {
-  return { config: model.config, stats: model.stats, weights: Float32Array.from(model.store.valueView()), current: model.readout };
-}
-
 /**
  * Starts the worker thread: the share of `helped`'s readout training data (readoutData part 1 of 2; when
  * given), then postFitOne for `twin` (when given; the twin itself is not changed). Returns both results and
@@ -111,18 +107,18 @@ function onWorker(helped: CouplingModel | null, twin: CouplingModel | null, inpu
     train: [...input.train], valid: [...input.valid], calibration: [...input.calibration], stride: input.stride, validStride: input.validStride, readout: input.readout,
   };
   const worker = new Worker(entry.code, { workerData: data, eval: entry.eval });
-  let settleShare: { resolve: (d: ReadoutData) => void; reject: (e: unknown) => void } | null = null;
-  const share = new Promise<ReadoutData>((resolve, reject) => { settleShare = { resolve, reject }; });
+  let resolveShare!: (d: ReadoutData) => void, rejectShare!: (e: unknown) => void;
+  const share = new Promise<ReadoutData>((resolve, reject) => { resolveShare = resolve; rejectShare = reject; });
   const result = new Promise<PostFitResult | null>((resolve, reject) => {
     const fail = (e: unknown) => {
-      settleShare!.reject(e);
+      rejectShare(e);
       reject(e);
     };
     worker.on('message', (m: PostFitWorkerMessage) => {
       if (m.error !== undefined) {
         void worker.terminate();
         fail(new Error(`post-fit worker failed: ${m.error}`));
-      } else if (m.share) settleShare!.resolve(m.share);
+      } else if (m.share) resolveShare(m.share);
       else {
         void worker.terminate();
         resolve(m.result ?? null);
