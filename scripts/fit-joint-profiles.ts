@@ -21,7 +21,7 @@ import type { AsymmetryTakeResult } from './asymmetry-take.js';
 const { values: v } = parseArgs({ options: { model: { type: 'string' }, 'per-stratum': { type: 'string' }, workers: { type: 'string' }, 'dry-run': { type: 'boolean' }, json: { type: 'boolean' }, quiet: { type: 'boolean' } } });
 const modelPath = v.model ?? defaultModelPath();
 const workers = Number(v.workers ?? Math.min(2, availableParallelism()));
-const cohort = jointProfileCohort(Number(v['per-stratum'] ?? 8));
+const cohort = v['per-stratum'] === undefined ? jointProfileCohort() : jointProfileCohort(Number(v['per-stratum']));
 const controls = jointProfileControls();
 
 const jointOf = (s: AsymmetrySubject) => jointOfKind(s.kind);

@@ -45,19 +45,19 @@ describe('cohorts', () => {
     expect(ho.filter((s) => s.group !== 'noisy').every((s) => s.options.noise === undefined)).toBe(true);
   });
 
-  it('give the joint-profile development cohort 8 subjects per kind and stratum in each arm', () => {
+  it('give the joint-profile development cohort 16 subjects per kind and stratum in each arm', () => {
     const dev = jointProfileCohort();
-    // 4 walker-made joint kinds × 3 strata × 8 + 4 edited joints × 3 strata × 8 + 2 side-only kinds × 3 strata × 8.
-    expect(dev).toHaveLength(240);
+    // 4 walker-made joint kinds × 3 strata × 16 + 4 edited joints × 3 strata × 16 + 2 side-only kinds × 3 strata × 16.
+    expect(dev).toHaveLength(480);
     expect(new Set(dev.filter((s) => s.arm === 'synth').map((s) => s.kind))).toEqual(new Set([...JOINT_RANGE_KINDS, ...SIDE_ONLY_KINDS]));
-    expect(new Set(dev.map((s) => s.id)).size).toBe(240);
+    expect(new Set(dev.map((s) => s.id)).size).toBe(480);
     expect(new Set(dev.filter((s) => s.arm === 'edit').map((s) => s.kind))).toEqual(new Set(['hip', 'knee', 'ankle', 'shoulder']));
     expect(dev.some((s) => s.side === 'left') && dev.some((s) => s.side === 'right')).toBe(true);
     expect(dev.every((s) => s.arm !== 'control' && s.id.startsWith('D'))).toBe(true);
     const controls = jointProfileControls();
     expect(controls).toHaveLength(48);
     expect(controls.every((s) => s.arm === 'control' && s.kind === null && s.id.startsWith('DC'))).toBe(true);
-    expect(new Set([...dev, ...controls].map((s) => s.id)).size).toBe(288);
+    expect(new Set([...dev, ...controls].map((s) => s.id)).size).toBe(528);
   });
 
   it('maps each impairment kind to the joint it narrows (arm swing and the edited shoulder to the shoulder/arm)', () => {
