@@ -61,6 +61,11 @@ export interface CouplingAsymmetry {
   attribution: 'profiles' | 'carried nodes';
   /** With profiles: per joint, the discriminant's best score of its classes (larger: more like that joint's impairment). */
   jointScores: Record<JointGroup, number> | null;
+  /**
+   * With profiles, when a side-only class (one-sided impairment of no single joint) fits better than every
+   * joint class: its wording, e.g. "a shorter stance"; the joint is then the best of the joint classes only.
+   */
+  pattern: string | null;
   summary: string;
 }
 
@@ -272,8 +277,15 @@ export function couplingAsymmetry(f: TakeFactors, norms: CouplingNorms, options:
   const controlP50 = learned ? options.profiles!.controls.evidenceP50 : norms.controlScoreP50;
   const controlP90 = learned ? options.profiles!.controls.evidenceP90 : norms.controlScoreP90;
   const top = ranked[0]!;
-  const summary = `Coupling asymmetry ${score.toFixed(2)} (${scoreKind}; 95 % interval ${ciLow.toFixed(2)} to ${ciHigh.toFixed(2)}; control takes: median ${controlP50.toFixed(2)}, 90th percentile ${controlP90.toFixed(2)}): the ${side} side lies farther from the cohort, most around the ${joint}; the largest difference is ${top.pair} against ${top.mirror} (${top.score.toFixed(2)}).`;
-  return { score, ciLow, ciHigh, scoreKind, controlP50, controlP90, distance, side, joint, ranked, joints, attribution: learned ? 'profiles' : 'carried nodes', jointScores: learned?.scores ?? null, summary };
+  const pattern = learned && learned.best.joint === null ? sideOnlyWording(learned.best.source) : null;
+  const where = pattern ? `most like ${pattern} on that side (of the joints, most around the ${joint})` : `most around the ${joint}`;
+  const summary = `Coupling asymmetry ${score.toFixed(2)} (${scoreKind}; 95 % interval ${ciLow.toFixed(2)} to ${ciHigh.toFixed(2)}; control takes: median ${controlP50.toFixed(2)}, 90th percentile ${controlP90.toFixed(2)}): the ${side} side lies farther from the cohort, ${where}; the largest difference is ${top.pair} against ${top.mirror} (${top.score.toFixed(2)}).`;
+  return { score, ciLow, ciHigh, scoreKind, controlP50, controlP90, distance, side, joint, ranked, joints, attribution: learned ? 'profiles' : 'carried nodes', jointScores: learned?.scores ?? null, pattern, summary };
+}
+
+/** Returns the words for a side-only class of the joint discriminant ("stance" → "a shorter stance"). */
+export function sideOnlyWording(source: string): string {
+  return source === 'stance' ? 'a shorter stance' : source === 'step' ? 'a shorter step' : `a one-sided ${source} pattern`;
 }
 
 /** The key of the normative figures among a model file's extras. */

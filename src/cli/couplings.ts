@@ -34,7 +34,7 @@ export function asymmetryJson(a: CouplingAsymmetry): Record<string, unknown> {
   return {
     score: r3(a.score), ci_low: r3(a.ciLow), ci_high: r3(a.ciHigh), score_kind: a.scoreKind,
     control_p50: r3(a.controlP50), control_p90: r3(a.controlP90), distance: r3(a.distance), side: a.side, joint: a.joint,
-    attribution: a.attribution,
+    pattern: a.pattern, attribution: a.attribution,
     joint_scores: a.jointScores ? Object.fromEntries(Object.entries(a.jointScores).map(([k, v]) => [k, r3(v)])) : null,
     joints: Object.fromEntries(Object.entries(a.joints).map(([k, v]) => [k, r3(v)])),
     ranked: a.ranked.map((r) => ({ pair: r.pair, mirror: r.mirror, score: r3(r.score), ci_low: r3(r.ciLow), ci_high: r3(r.ciHigh), side: r.side })),

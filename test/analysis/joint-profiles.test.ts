@@ -8,7 +8,7 @@
 // and grows with the size of an impairment pattern. Then couplingAsymmetry uses stored profiles for joint,
 // side and score.
 import { describe, expect, it } from 'vitest';
-import { coupleNames, coupleVector, couplingAsymmetry, couplingNorms } from '../../src/analysis/coupling-asymmetry.js';
+import { coupleNames, coupleVector, couplingAsymmetry, couplingNorms, sideOnlyWording } from '../../src/analysis/coupling-asymmetry.js';
 import type { TakeFactors } from '../../src/analysis/factors.js';
 import { attributeByProfiles, fitDiscriminant, fitJointProfiles, JOINT_GROUPS, JOINT_PROFILES_KEY, SHRINKAGE_GRID, storedJointProfiles, type ProfileSample } from '../../src/analysis/joint-profiles.js';
 import { DEFAULT_PAIRS } from '../../src/motion/roles.js';
@@ -102,7 +102,11 @@ describe('shrinkage discriminant', () => {
     expect(a.scores.ankle).toBeGreaterThan(Math.max(a.scores.hip, a.scores.knee, a.scores['shoulder/arm']));
     // The hip's second source names the hip as well; a side-only pattern names its side.
     expect(attributeByProfiles(Float64Array.from(pattern(4), (x) => -x), fitted)).toMatchObject({ joint: 'hip', side: 'right' });
-    expect(attributeByProfiles(Float64Array.from(pattern(5), (x) => -x), fitted).side).toBe('right');
+    const stance = attributeByProfiles(Float64Array.from(pattern(5), (x) => -x), fitted);
+    expect(stance.side).toBe('right');
+    // The best class of any kind is the side-only one; a joint pattern's best class is its own.
+    expect(stance.best).toEqual({ joint: null, source: 'stance' });
+    expect(a.best).toEqual({ joint: 'ankle', source: 'walker' });
   });
 
   it('sees through a large nuisance shared by two joints, which the plain class means do not', () => {
@@ -157,6 +161,12 @@ describe('coupling asymmetry with stored profiles', () => {
       dev.push({ joint, source: 'walker', side, z: coupleVector(factors(300 + 10 * j + k, (p) => (p === target ? 0.5 : 0)), norms) });
     }
   });
+  // A side-only class (shorter stance): couple 45's left member shifted, or its mirror.
+  const stancePair = (side: 'left' | 'right') => (side === 'left' ? couplesIdx[45]! : DEFAULT_PAIRS.mirror[couplesIdx[45]!]!);
+  for (let k = 0; k < 4; k++) {
+    const side = k % 2 ? 'right' : 'left';
+    dev.push({ joint: null, source: 'stance', side, z: coupleVector(factors(350 + k, (p) => (p === stancePair(side) ? 0.5 : 0)), norms) });
+  }
   const devControls = Array.from({ length: 6 }, (_, i) => coupleVector(factors(400 + i, () => 0), norms));
   const profiles = fitJointProfiles(dev, devControls, names, SD);
 
@@ -166,6 +176,8 @@ describe('coupling asymmetry with stored profiles', () => {
     expect(a.attribution).toBe('profiles');
     expect(a.joint).toBe('ankle');
     expect(a.side).toBe('right');
+    expect(a.pattern).toBeNull();
+    expect(a.summary).toContain('the right side lies farther from the cohort, most around the ankle;');
     // The take score is the discriminant's evidence on the take's couple vector, against the profiles' controls.
     const f = factors(999, (p) => (p === target ? 0.5 : 0));
     expect(a.scoreKind).toBe('discriminant evidence');
@@ -178,5 +190,15 @@ describe('coupling asymmetry with stored profiles', () => {
     expect(plain.scoreKind).toBe('pair distance');
     expect(plain.score).toBe(plain.distance);
     expect(plain.controlP90).toBe(norms.controlScoreP90);
+    expect(plain.pattern).toBeNull();
+  });
+
+  it('says so when a side-only class fits better than every joint class, and still names the best joint', () => {
+    const a = couplingAsymmetry(factors(998, (p) => (p === stancePair('left') ? 0.5 : 0)), norms, { replicates: 10, profiles });
+    expect(a.side).toBe('left');
+    expect(a.pattern).toBe('a shorter stance');
+    expect(JOINT_GROUPS).toContain(a.joint);
+    expect(a.summary).toContain(`the left side lies farther from the cohort, most like a shorter stance on that side (of the joints, most around the ${a.joint});`);
+    expect([sideOnlyWording('stance'), sideOnlyWording('step'), sideOnlyWording('sway')]).toEqual(['a shorter stance', 'a shorter step', 'a one-sided sway pattern']);
   });
 });

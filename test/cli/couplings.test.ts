@@ -31,6 +31,8 @@ describe('jointloom couplings', () => {
     const a = j.asymmetry;
     expect(['left', 'right']).toContain(a.side);
     expect(['hip', 'knee', 'ankle', 'shoulder/arm']).toContain(a.joint);
+    // A stiff knee fits a joint class best, so no side-only pattern is named.
+    expect(a.pattern).toBeNull();
     // Every mirror couple once: (272 − 6 midline pairs) / 2 = 133.
     expect(a.ranked).toHaveLength(133);
     for (const x of a.ranked.slice(0, 10)) {
@@ -62,6 +64,18 @@ describe('jointloom couplings', () => {
     expect(text).toMatch(/<dt>Low-pass filter<\/dt><dd>6 Hz, zero-lag fourth-order Butterworth/);
     // Self-contained: no external resource.
     expect(text).not.toMatch(/(src|href)="https?:/);
+  });
+
+  it('names a side-only pattern when it fits best: S03-1 walks with a shorter left stance and step', async () => {
+    // demo-takes/S03-1-walk.json: shorter stance and step on the left, with a trunk lean (the demo's own synthesizer).
+    const take = join(ROOT, 'demo-takes', 'S03-1-walk.bvh'), html = join(work, 's03.html');
+    const r = await runCli(['couplings', take, '--json', '--html', html]);
+    expect(r.code, r.stderr).toBe(0);
+    const a = JSON.parse(r.stdout).asymmetry;
+    expect(a.side).toBe('left');
+    expect(a.pattern).toBe('a shorter stance');
+    expect(a.summary).toContain('most like a shorter stance on that side');
+    expect(readFileSync(html, 'utf8')).toContain('The best-fitting class is one of no single joint, a shorter stance');
   });
 
   it('--help carries the caution once', async () => {
