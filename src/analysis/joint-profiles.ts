@@ -26,7 +26,7 @@ import type { JointGroup } from './coupling-asymmetry.js';
 export const JOINT_GROUPS: readonly JointGroup[] = ['hip', 'knee', 'ankle', 'shoulder/arm'];
 
 /** Shrinkage values tried by cross-validation, and the folds. */
-export const SHRINKAGE_GRID: readonly number[] = [0.005, 0.01, 0.02, 0.05, 0.1, 0.2, 0.5];
+export const SHRINKAGE_GRID: readonly number[] = [0.001, 0.002, 0.005, 0.01, 0.02, 0.05, 0.1, 0.2, 0.5];
 export const CV_FOLDS = 8;
 
 /** One class of the discriminant: a joint impaired one way (or a side-only impairment, joint null), turned to the left side. */

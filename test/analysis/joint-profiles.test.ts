@@ -6,7 +6,7 @@
 // mirror image) keeps the joint and flips the side, a nuisance shared by two joints is discounted, and
 // stored profiles are read back or refused; the evidence score is hand-computed on the two-class example
 // and grows with the size of an impairment pattern. Then couplingAsymmetry uses stored profiles for joint,
-// side and score.
+// side and score, and names a side-only class as the pattern when it fits better than every joint class.
 import { describe, expect, it } from 'vitest';
 import { coupleNames, coupleVector, couplingAsymmetry, couplingNorms, sideOnlyWording } from '../../src/analysis/coupling-asymmetry.js';
 import type { TakeFactors } from '../../src/analysis/factors.js';
