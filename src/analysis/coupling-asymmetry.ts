@@ -277,8 +277,8 @@ export function couplingAsymmetry(f: TakeFactors, norms: CouplingNorms, options:
   const controlP50 = learned ? options.profiles!.controls.evidenceP50 : norms.controlScoreP50;
   const controlP90 = learned ? options.profiles!.controls.evidenceP90 : norms.controlScoreP90;
   const top = ranked[0]!;
-  const pattern = learned && learned.best.joint === null ? sideOnlyWording(learned.best.source) : null;
-  const where = pattern ? `most like ${pattern} on that side (of the joints, most around the ${joint})` : `most around the ${joint}`;
+  const pattern = learned?.best && learned.best.joint === null ? sideOnlyWording(learned.best.source) : null;
+  const where = pattern ? `most like ${pattern} on that side (nearest joint class: the ${joint})` : `most around the ${joint}`;
   const summary = `Coupling asymmetry ${score.toFixed(2)} (${scoreKind}; 95 % interval ${ciLow.toFixed(2)} to ${ciHigh.toFixed(2)}; control takes: median ${controlP50.toFixed(2)}, 90th percentile ${controlP90.toFixed(2)}): the ${side} side lies farther from the cohort, ${where}; the largest difference is ${top.pair} against ${top.mirror} (${top.score.toFixed(2)}).`;
   return { score, ciLow, ciHigh, scoreKind, controlP50, controlP90, distance, side, joint, ranked, joints, attribution: learned ? 'profiles' : 'carried nodes', jointScores: learned?.scores ?? null, pattern, summary };
 }

@@ -73,8 +73,8 @@ export interface ProfileAttribution {
   scores: Record<JointGroup, number>;
   /** The best score of any class: the log-likelihood ratio of the best-matching impairment against a normal take. */
   evidence: number;
-  /** That best class: its joint (null for a side-only class, such as a shorter stance) and source. */
-  best: { joint: JointGroup | null; source: string };
+  /** That best class: its joint (null for a side-only class, such as a shorter stance) and source; null when no class scored (a vector with NaN). */
+  best: { joint: JointGroup | null; source: string } | null;
 }
 
 function dot(a: ArrayLike<number>, b: ArrayLike<number>): number {
@@ -138,7 +138,7 @@ export function fitDiscriminant(samples: readonly ProfileSample[], L: number, sh
 function attribute(z: ArrayLike<number>, classes: readonly DiscriminantClass[]): ProfileAttribution {
   const scores = Object.fromEntries(JOINT_GROUPS.map((j) => [j, -Infinity])) as Record<JointGroup, number>;
   let bestAny = -Infinity, side: 'left' | 'right' = 'left', joint: JointGroup = JOINT_GROUPS[0]!, bestJoint = -Infinity;
-  let best: ProfileAttribution['best'] = { joint: null, source: '' };
+  let best: ProfileAttribution['best'] = null;
   for (const c of classes) {
     const a = dot(c.weights, z), sc = Math.abs(a) - c.bias;
     if (sc > bestAny) { bestAny = sc; side = a >= 0 ? 'left' : 'right'; best = { joint: c.joint, source: c.source }; }

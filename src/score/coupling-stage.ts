@@ -32,7 +32,7 @@ export const COUPLING_STAGE: ScoreStage = {
     const flagged = a.score > a.controlP90 && domain.inside;
     return {
       metrics: { asymmetry_score: a.score, asymmetry_ci_low: a.ciLow, asymmetry_ci_high: a.ciHigh, side_right: a.side === 'right' ? 1 : 0, control_p90: a.controlP90 },
-      flags: flagged ? [{ stage: 'coupling', measure: 'asymmetry', value: a.score, text: `coupling asymmetry ${a.score.toFixed(2)} (${a.scoreKind}) above the controls' 90th percentile (${a.controlP90.toFixed(2)}): ${a.side} side, ${a.pattern ? `like ${a.pattern} (of the joints: ${a.joint})` : `around the ${a.joint}`}` }] : [],
+      flags: flagged ? [{ stage: 'coupling', measure: 'asymmetry', value: a.score, text: `coupling asymmetry ${a.score.toFixed(2)} (${a.scoreKind}) above the controls' 90th percentile (${a.controlP90.toFixed(2)}): ${a.side} side, ${a.pattern ? `like ${a.pattern} (nearest joint class: ${a.joint})` : `around the ${a.joint}`}` }] : [],
       detail: { model: ctx.modelFile, side: a.side, joint: a.joint, pattern: a.pattern, summary: a.summary, top: a.ranked.slice(0, 5).map((r) => ({ pair: r.pair, mirror: r.mirror, score: r.score, ci_low: r.ciLow, ci_high: r.ciHigh, side: r.side })), domain },
       ...(domain.inside ? {} : { warnings: [`${domainWarning(domain, `its coupling asymmetry (${a.score.toFixed(2)}, ${a.side} side) is not flagged and`)}`] }),
       usedModel: true,

@@ -213,8 +213,8 @@ export function jointProfileControls(count = 48, duration = 30): AsymmetrySubjec
  * swing by the walker; hip, knee, ankle and shoulder narrowed afterwards) and the side-only kinds
  * (shorter stance, shorter step by the walker), `perStratum` subjects per kind and severity stratum,
  * random sides. The joint attribution's discriminant is fitted on it (src/analysis/joint-profiles.ts),
- * never on the validation cohort. 16 by default: on the shipped model 8 gave a cross-validated joint and
- * side accuracy of 0.91 and 0.93, 16 gave 0.93 and 0.95.
+ * never on the validation cohort. 16 by default: on the shipped model, at λ 0.005, 8 gave a
+ * cross-validated joint and side accuracy of 0.91 and 0.93, 16 gave 0.93 and 0.95.
  */
 export function jointProfileCohort(perStratum = 16, duration = 30): AsymmetrySubject[] {
   return [

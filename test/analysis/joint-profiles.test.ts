@@ -107,6 +107,8 @@ describe('shrinkage discriminant', () => {
     // The best class of any kind is the side-only one; a joint pattern's best class is its own.
     expect(stance.best).toEqual({ joint: null, source: 'stance' });
     expect(a.best).toEqual({ joint: 'ankle', source: 'walker' });
+    // A vector no class can score names no best class (so no side-only pattern either).
+    expect(attributeByProfiles(new Float64Array(L).fill(NaN), fitted).best).toBeNull();
   });
 
   it('sees through a large nuisance shared by two joints, which the plain class means do not', () => {
@@ -197,8 +199,11 @@ describe('coupling asymmetry with stored profiles', () => {
     const a = couplingAsymmetry(factors(998, (p) => (p === stancePair('left') ? 0.5 : 0)), norms, { replicates: 10, profiles });
     expect(a.side).toBe('left');
     expect(a.pattern).toBe('a shorter stance');
-    expect(JOINT_GROUPS).toContain(a.joint);
-    expect(a.summary).toContain(`the left side lies farther from the cohort, most like a shorter stance on that side (of the joints, most around the ${a.joint});`);
+    // The joint named is the best of the joint classes alone.
+    const scores = a.jointScores!, bestJoint = JOINT_GROUPS.reduce((b, j) => (scores[j] > scores[b] ? j : b));
+    expect(a.joint).toBe(bestJoint);
+    expect(Math.max(...Object.values(scores))).toBeLessThan(a.score);
+    expect(a.summary).toContain(`the left side lies farther from the cohort, most like a shorter stance on that side (nearest joint class: the ${bestJoint});`);
     expect([sideOnlyWording('stance'), sideOnlyWording('step'), sideOnlyWording('sway')]).toEqual(['a shorter stance', 'a shorter step', 'a one-sided sway pattern']);
   });
 });
