@@ -46,7 +46,7 @@ export function viewFactors(track: Track, loaded: LoadedModel, nodeJoints: reado
     times: Array.from(f.times, (t) => r4(t)), pairs,
     staticRange: [r4(sLo), r4(sHi)], dynamicRange: [r4(dLo), r4(dHi)],
     asymmetry: a ? {
-      summary: a.summary, side: a.side, joint: a.joint,
+      summary: a.summary, side: a.side, joint: a.joint, pattern: a.pattern,
       ranked: a.ranked.slice(0, 10).map((r) => ({ pair: r.pair, mirror: r.mirror, score: r4(r.score), ci_low: r4(r.ciLow), ci_high: r4(r.ciHigh), side: r.side })),
     } : null,
   };

@@ -155,6 +155,9 @@ export interface ViewFactors {
   pairs: ViewFactorPair[];
   staticRange: [number, number];
   dynamicRange: [number, number];
-  /** The coupling asymmetry against the model's normative cohort, or null when the model holds none. */
-  asymmetry: { summary: string; side: string; joint: string; ranked: { pair: string; mirror: string; score: number; ci_low: number; ci_high: number; side: string }[] } | null;
+  /**
+   * The coupling asymmetry against the model's normative cohort, or null when the model holds none;
+   * pattern: the side-only class that fits best ("a shorter stance"), null when a joint class does.
+   */
+  asymmetry: { summary: string; side: string; joint: string; pattern: string | null; ranked: { pair: string; mirror: string; score: number; ci_low: number; ci_high: number; side: string }[] } | null;
 }
