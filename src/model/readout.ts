@@ -267,20 +267,25 @@ interface GramBlock { cols: number; dim: number; outs: number; out: number }
  * Gram matrix A (Σ z zᵀ) and cross-product B (Σ z yᵀ). Windows go four at a time, each entry taking
  * their four products in one expression evaluated left to right, (((A + p0) + p1) + p2) + p3: the same
  * sums, rounding for rounding, as one window after another, with a quarter of the passes over A (a few
- * MB: the pass, not the arithmetic, is the cost).
+ * MB: the pass, not the arithmetic, is the cost). A last group of fewer than four is padded with zero
+ * features, whose products (±0) leave every sum's bits as they are: a sum that starts at +0 is never −0.
  */
 function accumulateGrams(train: ReadoutData, blocks: readonly GramBlock[], grams: readonly { A: Float64Array; B: Float64Array }[], mean: Float64Array, sd: Float64Array, ym: Float64Array): void {
   const n = train.features.length, d = mean.length, m = ym.length;
   const z = [0, 1, 2, 3].map(() => new Float64Array(d)), y = [0, 1, 2, 3].map(() => new Float64Array(m));
   const load = (i: number, q: number) => {
-    const f = train.features[i]!, t = train.targets[i]!, zq = z[q]!, yq = y[q]!;
+    const zq = z[q]!, yq = y[q]!;
+    if (i >= n) {
+      zq.fill(0);
+      return;
+    }
+    const f = train.features[i]!, t = train.targets[i]!;
     for (let j = 0; j < d; j++) zq[j] = (f[j]! - mean[j]!) / sd[j]!;
     for (let o = 0; o < m; o++) yq[o] = t[o]! - ym[o]!;
   };
   const [z0, z1, z2, z3] = z as [Float64Array, Float64Array, Float64Array, Float64Array];
   const [y0, y1, y2, y3] = y as [Float64Array, Float64Array, Float64Array, Float64Array];
-  let i = 0;
-  for (; i + 3 < n; i += 4) {
+  for (let i = 0; i < n; i += 4) {
     for (let q = 0; q < 4; q++) load(i + q, q);
     blocks.forEach((bl, bi) => {
       const { A, B } = grams[bi]!, D = bl.dim, M = bl.out, c = bl.cols, u = bl.outs;
@@ -292,20 +297,6 @@ function accumulateGrams(train: ReadoutData, blocks: readonly GramBlock[], grams
         for (let b2 = 0; b2 <= a; b2++) A[ra + b2] = A[ra + b2]! + a0 * z0[c + b2]! + a1 * z1[c + b2]! + a2 * z2[c + b2]! + a3 * z3[c + b2]!;
         const rb = a * M;
         for (let o = 0; o < M; o++) B[rb + o] = B[rb + o]! + a0 * y0[u + o]! + a1 * y1[u + o]! + a2 * y2[u + o]! + a3 * y3[u + o]!;
-      }
-    });
-  }
-  for (; i < n; i++) {
-    load(i, 0);
-    blocks.forEach((bl, bi) => {
-      const { A, B } = grams[bi]!, D = bl.dim, M = bl.out, c = bl.cols, u = bl.outs;
-      for (let a = 0; a < D; a++) {
-        const a0 = z0[c + a]!;
-        if (a0 === 0) continue;
-        const ra = a * D;
-        for (let b2 = 0; b2 <= a; b2++) A[ra + b2] = A[ra + b2]! + a0 * z0[c + b2]!;
-        const rb = a * M;
-        for (let o = 0; o < M; o++) B[rb + o] = B[rb + o]! + a0 * y0[u + o]!;
       }
     });
   }
