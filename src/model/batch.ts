@@ -4,14 +4,14 @@
 import { mirrorState } from '../motion/reflect.js';
 import { frameNodes, type FrameNodes } from '../motion/frame.js';
 import { normalise, type MotionStats } from '../motion/normalise.js';
+import { allPairs } from '../motion/roles.js';
 import type { Track } from '../motion/track.js';
 import { allocateWindow, fillWindow, resolveWindowOptions, windowEnds, type ResolvedWindowOptions, type Window } from '../motion/window.js';
-import { allOrderedPairs } from '../nn/pairs.js';
 import type { ParamStore } from '../nn/params.js';
 import type { Buf } from '../nn/types.js';
 import { modelWindowOptions, observedPoints, pointStep, type ModelConfig } from './config.js';
 import type { Batch } from './encoder.js';
-import { mirroredPairs, SIGNATURE_FEATURES } from './signature.js';
+import { SIGNATURE_FEATURES } from './signature.js';
 import { stridePriorScratch, stridePriorSteps, strideReconSteps, type StridePriorScratch } from './model.js';
 
 /** One take the model learns from. */
@@ -68,9 +68,10 @@ export class BatchBuilder {
     const steps = config.observe + config.forecast, W = config.nodes * 6;
     this.batch = { size, state: store.alloc(steps * size * W), group: new Int32Array(size), phase: new Float64Array(size * observedPoints(config)) };
     if (takes.some((t) => t.signature)) {
-      const pairs = allOrderedPairs(config.nodes);
+      // The model's pairs are every ordered pair in allPairs' order (nn/pairs.ts allOrderedPairs).
+      const pairs = allPairs(config.nodes, takes[0]!.track.nodeMirror);
       this.batch.signature = new Float64Array(size * pairs.count * SIGNATURE_FEATURES);
-      this.signatureMirror = mirroredPairs(pairs, takes[0]!.track.nodeMirror);
+      this.signatureMirror = pairs.mirror;
     }
     if (config.stridePrior) {
       this.batch.prior = store.alloc(config.forecast * size * W);

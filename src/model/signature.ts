@@ -79,19 +79,6 @@ export function takeSignature(track: Track, config: ModelConfig, pairs: PairList
   return acc;
 }
 
-/** Returns, for each pair i → j, the index of its mirror image m(i) → m(j). */
-export function mirroredPairs(pairs: PairList, nodeMirror: Int32Array): Int32Array {
-  const index = new Map<number, number>();
-  for (let k = 0; k < pairs.count; k++) index.set(pairs.senders[k]! * pairs.nodes + pairs.receivers[k]!, k);
-  const out = new Int32Array(pairs.count);
-  for (let k = 0; k < pairs.count; k++) {
-    const m = index.get(nodeMirror[pairs.senders[k]!]! * pairs.nodes + nodeMirror[pairs.receivers[k]!]!);
-    if (m === undefined) throw new RangeError('the node mirror maps a pair outside the pair list');
-    out[k] = m;
-  }
-  return out;
-}
-
 /**
  * Returns the signatures standardised per pair and feature by their mean and SD over the first `statsFrom`
  * signatures (the training takes), so that held-out takes are read on the training scale; null entries

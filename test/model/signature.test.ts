@@ -3,10 +3,11 @@
 // two signals proportional with factors a and −b have correlation −1.
 import { describe, expect, it } from 'vitest';
 import { allOrderedPairs } from '../../src/nn/pairs.js';
+import { allPairs } from '../../src/motion/roles.js';
 import { BatchBuilder, windowRefs } from '../../src/model/batch.js';
 import { resolveModelConfig } from '../../src/model/config.js';
 import { createModel } from '../../src/model/model.js';
-import { mirroredPairs, SIGNATURE_FEATURES, standardiseSignatures, takeSignature, windowSignature } from '../../src/model/signature.js';
+import { SIGNATURE_FEATURES, standardiseSignatures, takeSignature, windowSignature } from '../../src/model/signature.js';
 import { statsOfTakes, withSignatures } from '../../src/model/train.js';
 import { SMALL, synthTrainingTake } from './takes.js';
 
@@ -46,7 +47,7 @@ describe('take signature', () => {
 
   it('maps each pair to its mirror image, and standardises each feature on the training takes', () => {
     // Nodes 1 and 2 are a left/right pair, node 0 the middle.
-    const mirror = mirroredPairs(pairs, Int32Array.from([0, 2, 1]));
+    const mirror = allPairs(3, Int32Array.from([0, 2, 1])).mirror;
     expect(mirror[at(0, 1)]).toBe(at(0, 2));
     expect(mirror[at(1, 2)]).toBe(at(2, 1));
     for (let k = 0; k < pairs.count; k++) expect(mirror[mirror[k]!]).toBe(k);
@@ -66,7 +67,7 @@ describe('take signature', () => {
     const config = resolveModelConfig({ ...SMALL, signatureWeight: 272 });
     const takes = [synthTrainingTake(1, 6), synthTrainingTake(2, 6), synthTrainingTake(3, 6)];
     const { train, valid } = withSignatures(takes.slice(0, 2), takes.slice(2), config);
-    const all = allOrderedPairs(config.nodes), mirror = mirroredPairs(all, takes[0]!.track.nodeMirror);
+    const all = allOrderedPairs(config.nodes), mirror = allPairs(config.nodes, takes[0]!.track.nodeMirror).mirror;
     for (const t of [...train, ...valid]) expect(t.signature?.length).toBe(all.count * G);
     // The held-out take is standardised with the training takes' statistics (not its own).
     const raw = takes.map((t) => takeSignature(t.track, config, all));
