@@ -1,6 +1,8 @@
 // Tracks of the fixed synthetic cohorts (src/synth/cohort.ts) for the model scripts: each subject's take
 // is synthesized, imported as a user's file would be (roles, units and up axis detected from the file)
-// and turned into a model-rate track.
+// and turned into a model-rate track; walkerFactors reads their factor summaries under a model.
+import { takeFactors, type TakeFactors } from '../src/analysis/factors.js';
+import type { CouplingModel } from '../src/model/model.js';
 import { trackFromImported, type Track } from '../src/motion/track.js';
 import { analyzeGait } from '../src/gait/analyze.js';
 import { DEFAULT_LOWPASS_HZ } from '../src/gait/input.js';
@@ -33,4 +35,9 @@ export function cohortTrack(subject: CohortSubject, options: { phase?: boolean }
     phase = null;
   }
   return { subject, track, truth: r.truth, phase };
+}
+
+/** Returns the factor summaries of walkers under a model (no phase labels: the model reads none), as the normative figures take them. */
+export function walkerFactors(model: CouplingModel, walkers: readonly CohortSubject[]): TakeFactors[] {
+  return walkers.map((s) => takeFactors(model, cohortTrack(s, { phase: false }).track));
 }

@@ -23,11 +23,11 @@ import { calibrationCohort, normativeCohort, trainingCohort } from '../src/synth
 import { COUPLING_NORMS_KEY, couplingNorms, type CouplingNorms } from '../src/analysis/coupling-asymmetry.js';
 import { JOINT_PROFILES_KEY } from '../src/analysis/joint-profiles.js';
 import type { CouplingModel } from '../src/model/model.js';
-import { takeFactors, type TakeFactors } from '../src/analysis/factors.js';
+import type { TakeFactors } from '../src/analysis/factors.js';
 import type { NormsWorkerData } from './norms-worker.js';
 import { tsWorkerEntry } from '../src/model/worker-entry.js';
 import { modelSpec } from '../src/model/model-spec.js';
-import { cohortTrack } from './model-cohort.js';
+import { cohortTrack, walkerFactors } from './model-cohort.js';
 
 /** The recipe of the shipped model: every figure here is stored in the model file's summary too. */
 export const DEFAULT_RECIPE = { subjects: 32, seconds: 30, epochs: 4, seed: 1, windowStride: 6, threads: 2, calibrationSubjects: 16 } as const;
@@ -70,7 +70,7 @@ async function cohortNorms(model: CouplingModel): Promise<CouplingNorms> {
   });
   theirs.catch(() => undefined); // seen below; not left unobserved when this thread's share fails first
   try {
-    const mine = walkers.slice(0, half).map((s) => takeFactors(model, cohortTrack(s, { phase: false }).track));
+    const mine = walkerFactors(model, walkers.slice(0, half));
     return couplingNorms([...mine, ...(await theirs)]);
   } finally {
     await worker?.terminate();
